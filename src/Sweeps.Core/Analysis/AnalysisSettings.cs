@@ -1,0 +1,24 @@
+namespace Sweeps.Core.Analysis;
+
+/// <summary>
+/// How one point is analysed. For maps, <see cref="Transient"/> and <see cref="Measure"/> count
+/// iterations. <see cref="Tolerance"/> is used both as absolute and relative tolerance of the period
+/// test: |a − b| ≤ tol·(1 + max(|a|, |b|)).
+/// </summary>
+/// <param name="Transient">Iterations discarded before measuring.</param>
+/// <param name="Measure">Iterations over which exponents are averaged; the last 2·MaxPeriod of them feed the period test.</param>
+/// <param name="Lyapunov">Which exponents to compute.</param>
+/// <param name="MaxPeriod">Longest cycle the period detector looks for.</param>
+/// <param name="Tolerance">Period-test tolerance (absolute and relative).</param>
+/// <param name="Escape">A state component beyond ±Escape counts as divergence.</param>
+/// <param name="ZeroBand">An exponent within ±max(ZeroBand, its convergence error) counts as zero.</param>
+/// <param name="Samples">Number of attractor samples (last states) kept per point.</param>
+public sealed record AnalysisSettings(
+    long Transient = 1000,
+    long Measure = 2000,
+    LyapunovMode Lyapunov = LyapunovMode.Spectrum,
+    int MaxPeriod = 64,
+    double Tolerance = 1e-9,
+    double Escape = 1e12,
+    double ZeroBand = 1e-3,
+    int Samples = 16);

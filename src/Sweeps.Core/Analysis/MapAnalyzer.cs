@@ -1,0 +1,275 @@
+using System.Runtime.CompilerServices;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Core.Analysis;
+
+/// <summary>
+/// Analyses points of an iterated map: transient, then a measured phase with the tangent map
+/// (Benettin/QR method), then period detection and classification. An instance owns all its buffers
+/// and is reused for every point of a chunk; it is not thread-safe — use one per worker.
+/// </summary>
+public sealed class MapAnalyzer
+{
+    private readonly Model model;
+    private readonly AnalysisSettings settings;
+    private readonly int n;
+    private readonly int vectors;
+    private double[] x;
+    private double[] y;
+    private readonly double[] jacobian;
+    private readonly double[] scratch;
+    private readonly double[] tangent;
+    private readonly double[] product;
+    private readonly double[] logs;
+    private readonly double[] sums;
+    private readonly double[] firstHalf;
+    private readonly PeriodDetector detector;
+
+    public MapAnalyzer(Model model, AnalysisSettings settings)
+    {
+        if (model.Kind != ModelKind.Map)
+        {
+            throw new ArgumentException("MapAnalyzer needs a map model", nameof(model));
+        }
+
+        this.model = model;
+        this.settings = settings;
+        n = model.Dimension;
+        vectors = settings.Lyapunov switch
+        {
+            LyapunovMode.Spectrum => n,
+            LyapunovMode.Largest => 1,
+            _ => 0,
+        };
+        x = new double[n];
+        y = new double[n];
+        jacobian = new double[n * n];
+        scratch = new double[n * n];
+        tangent = new double[n * vectors];
+        product = new double[n * vectors];
+        logs = new double[Math.Max(vectors, 1)];
+        sums = new double[Math.Max(vectors, 1)];
+        firstHalf = new double[Math.Max(vectors, 1)];
+        detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
+    }
+
+    public Model Model => model;
+
+    public AnalysisSettings Settings => settings;
+
+    /// <summary>Analyses the orbit of <paramref name="initial"/> under parameters <paramref name="parameters"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public PointResult Analyze(ReadOnlySpan<double> initial, double[] parameters)
+    {
+        initial.CopyTo(x);
+        detector.Reset();
+        if (!Bounded(x))
+        {
+            return Divergent(0);
+        }
+
+        for (long step = 1; step <= settings.Transient; step++)
+        {
+            model.Evaluate(x, parameters, 0, y);
+            (x, y) = (y, x);
+            if (!Bounded(x))
+            {
+                return Divergent(step);
+            }
+        }
+
+        ResetTangent();
+        var logDetSum = 0.0;
+        var half = settings.Measure / 2;
+        for (long step = 1; step <= settings.Measure; step++)
+        {
+            if (vectors > 0)
+            {
+                model.EvaluateJacobian(x, parameters, 0, jacobian);
+                if (!AdvanceTangent())
+                {
+                    return Unresolved($"non-finite tangent vector at iteration {settings.Transient + step}");
+                }
+
+                if (vectors == n)
+                {
+                    jacobian.CopyTo(scratch, 0);
+                    logDetSum += SmallMatrix.LogAbsDeterminant(scratch, n);
+                }
+            }
+
+            model.Evaluate(x, parameters, 0, y);
+            (x, y) = (y, x);
+            if (!Bounded(x))
+            {
+                return Divergent(settings.Transient + step);
+            }
+
+            if (step == half)
+            {
+                sums.AsSpan(0, vectors).CopyTo(firstHalf);
+            }
+
+            if (settings.Measure - step < detector.Capacity)
+            {
+                detector.Push(x);
+            }
+        }
+
+        return Classify(parameters, logDetSum);
+    }
+
+    private PointResult Classify(double[] parameters, double logDetSum)
+    {
+        var (exponents, errors) = Exponents();
+        var logDetMean = vectors == n && n > 0 ? logDetSum / settings.Measure : double.NaN;
+        var period = detector.FindPeriod();
+        var cycle = new List<double[]>();
+        for (var i = detector.Count - period; period > 0 && i < detector.Count; i++)
+        {
+            cycle.Add(detector.State(i).ToArray());
+        }
+
+        var multiplier = period > 0 ? CycleMultiplier(cycle, parameters) : double.NaN;
+        var verdict = MapClassifier.Decide(period, multiplier, exponents, errors, settings);
+        return new PointResult(
+            verdict.Regime,
+            verdict.Regime is Regime.FixedPoint or Regime.Periodic ? period : 0,
+            exponents,
+            errors,
+            logDetMean,
+            x.ToArray(),
+            cycle,
+            null,
+            verdict.Reason,
+            Samples());
+    }
+
+    private (double[] Exponents, double[] Errors) Exponents()
+    {
+        var exponents = new double[vectors];
+        var errors = new double[vectors];
+        var half = settings.Measure / 2;
+        for (var i = 0; i < vectors; i++)
+        {
+            exponents[i] = sums[i] / settings.Measure;
+            var early = firstHalf[i] / half;
+            var late = (sums[i] - firstHalf[i]) / (settings.Measure - half);
+            errors[i] = early == late ? 0.0 : Math.Abs(early - late);
+        }
+
+        return (exponents, errors);
+    }
+
+    /// <summary>Spectral radius of the product of Jacobians around the cycle (its Floquet multiplier).</summary>
+    private double CycleMultiplier(List<double[]> cycle, double[] parameters)
+    {
+        var monodromy = new double[n * n];
+        var next = new double[n * n];
+        for (var i = 0; i < n; i++)
+        {
+            monodromy[(i * n) + i] = 1.0;
+        }
+
+        foreach (var point in cycle)
+        {
+            model.EvaluateJacobian(point, parameters, 0, jacobian);
+            SmallMatrix.Multiply(jacobian, monodromy, next, n);
+            (monodromy, next) = (next, monodromy);
+        }
+
+        return SmallMatrix.SpectralRadius(monodromy, n);
+    }
+
+    private void ResetTangent()
+    {
+        Array.Clear(tangent);
+        Array.Clear(sums);
+        Array.Clear(firstHalf);
+        if (vectors == n)
+        {
+            for (var c = 0; c < n; c++)
+            {
+                tangent[(c * n) + c] = 1.0;
+            }
+        }
+        else if (vectors == 1)
+        {
+            // A generic start direction: all components equal, so no axis is privileged.
+            Array.Fill(tangent, 1.0 / Math.Sqrt(n));
+        }
+    }
+
+    private bool AdvanceTangent()
+    {
+        for (var c = 0; c < vectors; c++)
+        {
+            for (var i = 0; i < n; i++)
+            {
+                var sum = 0.0;
+                for (var k = 0; k < n; k++)
+                {
+                    sum += jacobian[(i * n) + k] * tangent[(c * n) + k];
+                }
+
+                product[(c * n) + i] = sum;
+            }
+        }
+
+        if (!Orthonormalizer.Orthonormalize(product, n, vectors, logs))
+        {
+            return false;
+        }
+
+        product.AsSpan().CopyTo(tangent);
+        for (var c = 0; c < vectors; c++)
+        {
+            sums[c] += logs[c];
+        }
+
+        return true;
+    }
+
+    private bool Bounded(double[] state)
+    {
+        foreach (var value in state)
+        {
+            if (!(Math.Abs(value) <= settings.Escape))
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+
+    private double[] Samples()
+    {
+        var count = Math.Min(settings.Samples, detector.Count);
+        var samples = new double[count * n];
+        for (var i = 0; i < count; i++)
+        {
+            detector.State(detector.Count - count + i).CopyTo(samples.AsSpan(i * n, n));
+        }
+
+        return samples;
+    }
+
+    private PointResult Divergent(long step)
+    {
+        var what = Array.TrueForAll(x, double.IsFinite)
+            ? $"escaped beyond ±{settings.Escape:g3} at iteration {step}"
+            : $"non-finite state at iteration {step}";
+        return new PointResult(Regime.Divergent, 0, Nan(vectors), Nan(vectors), double.NaN, x.ToArray(), [], step, what, []);
+    }
+
+    private PointResult Unresolved(string reason) =>
+        new(Regime.Unresolved, 0, Nan(vectors), Nan(vectors), double.NaN, x.ToArray(), [], null, reason, []);
+
+    private static double[] Nan(int count)
+    {
+        var values = new double[count];
+        Array.Fill(values, double.NaN);
+        return values;
+    }
+}

@@ -1,0 +1,85 @@
+using System.Runtime.CompilerServices;
+
+namespace Sweeps.Core.Analysis;
+
+/// <summary>
+/// Keeps the last 2·maxPeriod states in a ring and finds the smallest p ≤ maxPeriod for which every
+/// state in the window equals the one p steps earlier within tolerance, i.e. the cycle repeated in
+/// full at least twice. Requiring the whole window (not one return) keeps slow spirals and near-returns
+/// from passing as cycles.
+/// </summary>
+internal sealed class PeriodDetector
+{
+    private readonly int n;
+    private readonly int maxPeriod;
+    private readonly double tolerance;
+    private readonly double[] ring;
+    private int count;
+    private int next;
+
+    public PeriodDetector(int dimension, int maxPeriod, double tolerance)
+    {
+        n = dimension;
+        this.maxPeriod = maxPeriod;
+        this.tolerance = tolerance;
+        ring = new double[2 * maxPeriod * dimension];
+    }
+
+    public int Capacity => 2 * maxPeriod;
+
+    public int Count => count;
+
+    public void Reset()
+    {
+        count = 0;
+        next = 0;
+    }
+
+    public void Push(ReadOnlySpan<double> state)
+    {
+        state.CopyTo(ring.AsSpan(next * n, n));
+        next = (next + 1) % Capacity;
+        count = Math.Min(count + 1, Capacity);
+    }
+
+    /// <summary>The i-th stored state, 0 being the oldest.</summary>
+    public ReadOnlySpan<double> State(int i)
+    {
+        var slot = (next - count + i + Capacity) % Capacity;
+        return ring.AsSpan(slot * n, n);
+    }
+
+    /// <summary>The period, or 0 when none up to the maximum fits the window.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public int FindPeriod()
+    {
+        for (var p = 1; 2 * p <= count; p++)
+        {
+            if (Repeats(p))
+            {
+                return p;
+            }
+        }
+
+        return 0;
+    }
+
+    private bool Repeats(int p)
+    {
+        for (var i = count - 1; i >= p; i--)
+        {
+            var a = State(i);
+            var b = State(i - p);
+            for (var j = 0; j < n; j++)
+            {
+                var scale = 1.0 + Math.Max(Math.Abs(a[j]), Math.Abs(b[j]));
+                if (!(Math.Abs(a[j] - b[j]) <= tolerance * scale))
+                {
+                    return false;
+                }
+            }
+        }
+
+        return true;
+    }
+}

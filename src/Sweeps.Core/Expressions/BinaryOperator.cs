@@ -1,0 +1,10 @@
+namespace Sweeps.Core.Expressions;
+
+public enum BinaryOperator
+{
+    Add,
+    Subtract,
+    Multiply,
+    Divide,
+    Power,
+}

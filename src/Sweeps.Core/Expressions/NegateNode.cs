@@ -1,0 +1,4 @@
+namespace Sweeps.Core.Expressions;
+
+/// <summary>Unary minus.</summary>
+public sealed record NegateNode(Node Operand) : Node;

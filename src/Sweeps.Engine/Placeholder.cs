@@ -1,0 +1,1 @@
+namespace Sweeps.Engine; internal static class Placeholder { }
