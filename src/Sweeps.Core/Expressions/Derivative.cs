@@ -47,6 +47,12 @@ public static class Derivative
             return Mul(Mul(b, Pow(a, lowered)), da);
         }
 
+        if (Simplifier.IsZero(Simplifier.Simplify(a)))
+        {
+            // 0^b is constant where it is differentiable (b > 0); the general rule would give 0·ln 0 = NaN.
+            return NumberNode.Zero;
+        }
+
         var power = new BinaryNode(BinaryOperator.Power, a, b);
         if (Simplifier.IsZero(da))
         {
@@ -60,6 +66,11 @@ public static class Derivative
     {
         var u = node.Arguments[0];
         var du = Simplifier.Simplify(D(u, s));
+        if (node.Arguments.All(a => Simplifier.IsZero(Simplifier.Simplify(D(a, s)))))
+        {
+            return NumberNode.Zero;
+        }
+
         switch (node.Function)
         {
             case MathFunction.Atan2:

@@ -14,6 +14,8 @@ public static class Evaluator
             SymbolNode { Kind: SymbolKind.Parameter } symbol => parameters[symbol.Index],
             SymbolNode => time,
             NegateNode negate => -Evaluate(negate.Operand, variables, parameters, time),
+            BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } power when IsSmallInteger(exponent.Value) =>
+                IntegerPower(Evaluate(power.Left, variables, parameters, time), (int)exponent.Value),
             BinaryNode binary => Apply(
                 binary.Operator,
                 Evaluate(binary.Left, variables, parameters, time),
@@ -33,4 +35,20 @@ public static class Evaluator
         BinaryOperator.Divide => a / b,
         _ => Math.Pow(a, b),
     };
+
+    /// <summary>Exponents the language evaluates by repeated multiplication (x^2 is x*x), as the compiler does.</summary>
+    internal static bool IsSmallInteger(double exponent) =>
+        exponent == Math.Floor(exponent) && Math.Abs(exponent) is >= 1 and <= 4;
+
+    /// <summary>x^n for 1 ≤ |n| ≤ 4 as ((x*x)*x)*x, then 1/… for negative n: the same operations, in the same order, as compiled code.</summary>
+    internal static double IntegerPower(double x, int exponent)
+    {
+        var product = x;
+        for (var i = 1; i < Math.Abs(exponent); i++)
+        {
+            product *= x;
+        }
+
+        return exponent < 0 ? 1.0 / product : product;
+    }
 }

@@ -49,6 +49,17 @@ public static class FunctionCatalog
     /// <summary>sign(x): −1, 0 or 1, and NaN for NaN (Math.Sign throws on NaN).</summary>
     public static double Sign(double x) => x > 0 ? 1.0 : x < 0 ? -1.0 : x == 0 ? 0.0 : double.NaN;
 
+    /// <summary>
+    /// min with IEEE 754-2019 semantics (NaN if either is NaN, −0 below +0), written out because the
+    /// JIT's Math.Min intrinsic treated signed zeros differently in compiled and ordinary code.
+    /// </summary>
+    public static double Min(double a, double b) =>
+        a < b ? a : b < a ? b : double.IsNaN(a) || double.IsNaN(b) ? double.NaN : double.IsNegative(a) ? a : b;
+
+    /// <summary>max with IEEE 754-2019 semantics (NaN if either is NaN, +0 above −0).</summary>
+    public static double Max(double a, double b) =>
+        a > b ? a : b > a ? b : double.IsNaN(a) || double.IsNaN(b) ? double.NaN : double.IsNegative(a) ? b : a;
+
     /// <summary>Floored modulo: the result has the sign of <paramref name="b"/>, so mod(x, 1) lies in [0, 1).</summary>
     public static double Mod(double a, double b) => a - b * Math.Floor(a / b);
 
@@ -71,8 +82,8 @@ public static class FunctionCatalog
         MathFunction.Abs => Info(Math.Abs),
         MathFunction.Sign => Info(Sign),
         MathFunction.Floor => Info(Math.Floor),
-        MathFunction.Min => Info2(Math.Min),
-        MathFunction.Max => Info2(Math.Max),
+        MathFunction.Min => Info2(Min),
+        MathFunction.Max => Info2(Max),
         MathFunction.Mod => Info2(Mod),
         MathFunction.Pow => Info2(Math.Pow),
         _ => throw new ArgumentOutOfRangeException(nameof(function)),
@@ -98,8 +109,8 @@ public static class FunctionCatalog
         MathFunction.Abs => Math.Abs(a),
         MathFunction.Sign => Sign(a),
         MathFunction.Floor => Math.Floor(a),
-        MathFunction.Min => Math.Min(a, b),
-        MathFunction.Max => Math.Max(a, b),
+        MathFunction.Min => Min(a, b),
+        MathFunction.Max => Max(a, b),
         MathFunction.Mod => Mod(a, b),
         MathFunction.Pow => Math.Pow(a, b),
         _ => throw new ArgumentOutOfRangeException(nameof(function)),

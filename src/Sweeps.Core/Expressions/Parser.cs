@@ -9,6 +9,10 @@ public sealed class Parser
 {
     private const int MaxDepth = 200;
 
+    // Bounds the depth of every recursive pass over the tree (derivative, simplifier, printer), so no
+    // input can exhaust a worker thread's stack. Real model equations are a few dozen tokens.
+    private const int MaxTokens = 4000;
+
     private readonly List<Token> tokens;
     private readonly Scope scope;
     private int position;
@@ -24,7 +28,13 @@ public sealed class Parser
     public static Node Parse(string text, Scope scope)
     {
         ArgumentNullException.ThrowIfNull(text);
-        var parser = new Parser(Lexer.Tokenize(text), scope);
+        var tokens = Lexer.Tokenize(text);
+        if (tokens.Count > MaxTokens)
+        {
+            throw ExpressionException.At(tokens[MaxTokens].Column, $"expression longer than {MaxTokens} tokens");
+        }
+
+        var parser = new Parser(tokens, scope);
         if (parser.Current.Kind == TokenKind.End)
         {
             throw ExpressionException.At(1, "empty expression");

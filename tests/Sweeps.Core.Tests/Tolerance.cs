@@ -1,0 +1,30 @@
+namespace Sweeps.Core.Tests;
+
+/// <summary>Named tolerances, so that every comparison says which kind of agreement it expects.</summary>
+internal static class Tolerance
+{
+    /// <summary>Exact identities evaluated in floating point over long orbits (relative).</summary>
+    public const double Identity = 1e-9;
+
+    /// <summary>Published exponents of chaotic maps after ~10^6 iterations (absolute).</summary>
+    public const double PublishedMapExponent = 5e-3;
+
+    /// <summary>Published Hénon exponents as tabulated (absolute).</summary>
+    public const double PublishedHenonExponent = 3e-3;
+
+    /// <summary>Two floating-point evaluations of one formula by different routes (relative).</summary>
+    public const double Rounding = 1e-12;
+
+    public static void Close(double expected, double actual, double absolute, string? what = null)
+    {
+        Assert.True(
+            Math.Abs(expected - actual) <= absolute,
+            $"{what ?? "value"}: expected {expected:R} ± {absolute:g3}, got {actual:R}");
+    }
+
+    public static void Relative(double expected, double actual, double relative, string? what = null)
+    {
+        var scale = Math.Max(1, Math.Max(Math.Abs(expected), Math.Abs(actual)));
+        Close(expected, actual, relative * scale, what);
+    }
+}
