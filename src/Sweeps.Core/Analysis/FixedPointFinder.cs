@@ -86,6 +86,7 @@ public sealed class FixedPointFinder(Model model)
         var x = start.ToArray();
         var f = new double[n];
         var jacobian = new double[n * n];
+        var polished = false;
         for (var iteration = 0; iteration < MaxIterations; iteration++)
         {
             Residual(x, parameters, f);
@@ -95,11 +96,15 @@ public sealed class FixedPointFinder(Model model)
                 return null;
             }
 
-            if (f.Max(Math.Abs) <= ResidualTolerance * scale)
+            var converged = f.Max(Math.Abs) <= ResidualTolerance * scale;
+            if (converged && polished)
             {
                 return x;
             }
 
+            // One Newton step past the tolerance: convergence is quadratic, so it brings the root to
+            // full precision at the cost of a single solve.
+            polished = converged;
             model.EvaluateJacobian(x, parameters, 0, jacobian);
             var matrix = Matrix<double>.Build.Dense(n, n, (i, j) => jacobian[(i * n) + j] - (model.Kind == ModelKind.Map && i == j ? 1 : 0));
             var step = matrix.Solve(Vector<double>.Build.Dense(f));

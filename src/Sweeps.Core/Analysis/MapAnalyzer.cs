@@ -183,21 +183,9 @@ public sealed class MapAnalyzer
 
     private void ResetTangent()
     {
-        Array.Clear(tangent);
         Array.Clear(sums);
         Array.Clear(firstHalf);
-        if (vectors == n)
-        {
-            for (var c = 0; c < n; c++)
-            {
-                tangent[(c * n) + c] = 1.0;
-            }
-        }
-        else if (vectors == 1)
-        {
-            // A generic start direction: all components equal, so no axis is privileged.
-            Array.Fill(tangent, 1.0 / Math.Sqrt(n));
-        }
+        TangentFrame.Initial(n, vectors).CopyTo(tangent, 0);
     }
 
     private bool AdvanceTangent()

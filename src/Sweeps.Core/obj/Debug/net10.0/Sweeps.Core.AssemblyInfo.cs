@@ -13,7 +13,7 @@ using System.Reflection;
 [assembly: System.Reflection.AssemblyCompanyAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyConfigurationAttribute("Debug")]
 [assembly: System.Reflection.AssemblyFileVersionAttribute("0.1.0.0")]
-[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+11b6794163f566c774adfc4be26a7b8185d66260")]
+[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+024f1f1b253976e4382f7c9b0c1d7d27c77a69b7")]
 [assembly: System.Reflection.AssemblyProductAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyTitleAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyVersionAttribute("0.1.0.0")]
