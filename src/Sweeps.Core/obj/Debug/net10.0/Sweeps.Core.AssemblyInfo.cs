@@ -13,7 +13,7 @@ using System.Reflection;
 [assembly: System.Reflection.AssemblyCompanyAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyConfigurationAttribute("Debug")]
 [assembly: System.Reflection.AssemblyFileVersionAttribute("0.1.0.0")]
-[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+024f1f1b253976e4382f7c9b0c1d7d27c77a69b7")]
+[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+0940cfc081142554d149ec0299811d5eb8acc1de")]
 [assembly: System.Reflection.AssemblyProductAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyTitleAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyVersionAttribute("0.1.0.0")]
