@@ -80,8 +80,10 @@ public sealed class MapAnalyzer
 
         ResetTangent();
         var logDetSum = 0.0;
-        var half = settings.Measure / 2;
-        for (long step = 1; step <= settings.Measure; step++)
+        var measure = settings.Measure;
+        var half = measure / 2;
+        var recordFrom = measure - detector.Capacity;
+        for (long step = 1; step <= measure; step++)
         {
             if (vectors > 0)
             {
@@ -110,7 +112,7 @@ public sealed class MapAnalyzer
                 sums.AsSpan(0, vectors).CopyTo(firstHalf);
             }
 
-            if (settings.Measure - step < detector.Capacity)
+            if (step > recordFrom)
             {
                 detector.Push(x);
             }

@@ -1,0 +1,26 @@
+using System.CommandLine;
+using Sweeps.Cli.Output;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Planning;
+
+namespace Sweeps.Cli.Commands;
+
+/// <summary><c>sweeps check CONFIG</c>: validate and show the size and estimated cost of the sweep.</summary>
+internal static class CheckCommand
+{
+    public static Command Create(TextWriter output)
+    {
+        var config = new Argument<string>("CONFIG") { Description = "The sweep config (TOML)" };
+        var command = new Command("check", "Validate a config and print the grid size, chunk count and estimated cost; runs no sweep");
+        command.Arguments.Add(config);
+        command.SetAction(parse =>
+        {
+            var spec = SpecReader.Load(parse.GetRequiredValue(config));
+            var estimate = CostEstimate.Measure(spec);
+            var plan = ChunkPlan.For(spec.Grid.PointCount, estimate.SecondsPerPoint);
+            CheckText.Write(spec, estimate, plan, Environment.ProcessorCount, output);
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}

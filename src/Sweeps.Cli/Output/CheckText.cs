@@ -1,0 +1,46 @@
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Models;
+using Sweeps.Engine.Planning;
+using Sweeps.Engine.Specs;
+
+namespace Sweeps.Cli.Output;
+
+/// <summary>The report of <c>sweeps check</c>.</summary>
+internal static class CheckText
+{
+    public static void Write(SweepSpec spec, CostEstimate estimate, ChunkPlan plan, int cores, TextWriter output)
+    {
+        var model = spec.Model;
+        output.WriteLine($"{spec.SourceFile}: valid");
+        output.WriteLine($"model         {(model.Kind == ModelKind.Map ? "map" : "flow")}, variables {string.Join(", ", model.Variables)}; parameters {(model.Parameters.Count == 0 ? "none" : string.Join(", ", model.Parameters))}");
+        foreach (var axis in spec.Grid.Axes)
+        {
+            var what = axis.Target == AxisTarget.Parameter ? "parameter" : "initial value";
+            var range = axis.Values is null
+                ? $"{Numbers.Format(axis.From)} … {Numbers.Format(axis.To)}, {axis.Count} {(axis.Spacing == AxisSpacing.Log ? "log-spaced" : "linear")} steps"
+                : $"{axis.Count} listed values";
+            output.WriteLine($"axis          {axis.Name} ({what}): {range}");
+        }
+
+        var analysis = spec.Analysis;
+        var lyapunov = analysis.Lyapunov switch
+        {
+            LyapunovMode.Spectrum => "full spectrum",
+            LyapunovMode.Largest => "largest exponent",
+            _ => "no exponents",
+        };
+        output.WriteLine($"analysis      transient {analysis.Transient}, measure {analysis.Measure}, {lyapunov}, periods up to {analysis.MaxPeriod}");
+        output.WriteLine($"points        {plan.Points:N0}");
+        output.WriteLine($"chunks        {plan.ChunkCount:N0} of up to {plan.ChunkSize:N0} points");
+        var wall = estimate.TotalCpuSeconds / Math.Max(1, cores);
+        output.WriteLine($"estimate      {Numbers.Format(estimate.SecondsPerPoint * 1e6, "g3")} µs per point (timed on {estimate.SampledPoints} points); {Duration(estimate.TotalCpuSeconds)} of compute, about {Duration(wall)} on {cores} core{(cores == 1 ? "" : "s")}");
+    }
+
+    private static string Duration(double seconds) => seconds switch
+    {
+        < 1 => $"{Numbers.Format(seconds * 1000, "g3")} ms",
+        < 120 => $"{Numbers.Format(seconds, "g3")} s",
+        < 7200 => $"{Numbers.Format(seconds / 60, "g3")} min",
+        _ => $"{Numbers.Format(seconds / 3600, "g3")} h",
+    };
+}

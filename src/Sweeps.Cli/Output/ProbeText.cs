@@ -1,0 +1,75 @@
+using Sweeps.Core.Analysis;
+using Sweeps.Engine.Probing;
+
+namespace Sweeps.Cli.Output;
+
+/// <summary>The human-readable probe report: a label column and values, fixed points last.</summary>
+internal static class ProbeText
+{
+    private const int Label = 14;
+
+    public static void Write(ProbeReport report, TextWriter output)
+    {
+        var model = report.Model;
+        var result = report.Result;
+        foreach (var note in report.Notes)
+        {
+            output.WriteLine($"note: {note}");
+        }
+
+        if (model.Parameters.Count > 0)
+        {
+            Line(output, "parameters", Numbers.Assignments(model.Parameters, report.Parameters));
+        }
+
+        Line(output, "start", Numbers.Assignments(model.Variables, report.Initial));
+        Line(output, "regime", result.Regime.ToText());
+        if (result.Reason is { } reason)
+        {
+            Line(output, "reason", reason);
+        }
+
+        Line(output, "period", result.Period == 0 ? "none found" : $"{result.Period} iteration{(result.Period == 1 ? "" : "s")}");
+        if (result.Period > 1)
+        {
+            for (var i = 0; i < result.Cycle.Count; i++)
+            {
+                Line(output, i == 0 ? "cycle" : "", Numbers.Assignments(model.Variables, result.Cycle[i]));
+            }
+        }
+
+        WriteExponents(output, result);
+        Line(output, "final state", Numbers.Assignments(model.Variables, result.FinalState));
+        output.WriteLine();
+        output.WriteLine(report.FixedPoints.Count == 0 ? "fixed points: none found" : $"fixed points: {report.FixedPoints.Count}");
+        foreach (var point in report.FixedPoints)
+        {
+            var eigenvalues = string.Join(", ", point.Eigenvalues.Select(Numbers.Format));
+            output.WriteLine($"  {Numbers.Assignments(model.Variables, point.State)}");
+            output.WriteLine($"      {FixedPointClassifier.Describe(point.Kind, model.Kind)}; eigenvalues {eigenvalues}");
+        }
+    }
+
+    private static void WriteExponents(TextWriter output, PointResult result)
+    {
+        if (result.Lyapunov.Length == 0)
+        {
+            Line(output, "lyapunov", "not computed");
+            return;
+        }
+
+        for (var i = 0; i < result.Lyapunov.Length; i++)
+        {
+            var error = double.IsFinite(result.LyapunovError[i]) ? $"   (±{Numbers.Format(result.LyapunovError[i], "g2")})" : "";
+            Line(output, i == 0 ? "lyapunov" : "", $"λ{i + 1} = {Numbers.Format(result.Lyapunov[i])}{error}");
+        }
+
+        if (!double.IsNaN(result.LogDetMean))
+        {
+            Line(output, "", $"sum {Numbers.Format(result.Lyapunov.Sum())}; mean ln|det J| {Numbers.Format(result.LogDetMean)}");
+        }
+    }
+
+    private static void Line(TextWriter output, string label, string value) =>
+        output.WriteLine($"{label.PadRight(Label)}{value}");
+}

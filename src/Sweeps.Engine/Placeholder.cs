@@ -1,1 +1,0 @@
-namespace Sweeps.Engine; internal static class Placeholder { }

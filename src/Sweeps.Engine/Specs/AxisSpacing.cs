@@ -1,0 +1,7 @@
+namespace Sweeps.Engine.Specs;
+
+public enum AxisSpacing
+{
+    Linear,
+    Log,
+}

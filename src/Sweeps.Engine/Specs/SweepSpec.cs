@@ -1,0 +1,26 @@
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Engine.Specs;
+
+/// <summary>
+/// A validated sweep: the model, the base point (initial state and parameter values), the grid over
+/// it and the analysis settings. Everything downstream trusts it without re-checking.
+/// </summary>
+/// <param name="SourceFile">The config file it came from, as given.</param>
+/// <param name="Model">The model text.</param>
+/// <param name="Initial">Initial state, in variable order; swept variables hold their axis' first value.</param>
+/// <param name="Parameters">Parameter values, in parameter order; swept parameters hold their axis' first value.</param>
+/// <param name="Grid">The axes swept.</param>
+/// <param name="Analysis">Per-point analysis settings.</param>
+/// <param name="Integrator">Flow integration settings.</param>
+/// <param name="OutputDirectory">[output] dir, if given.</param>
+public sealed record SweepSpec(
+    string SourceFile,
+    ModelSource Model,
+    IReadOnlyList<double> Initial,
+    IReadOnlyList<double> Parameters,
+    Grid Grid,
+    AnalysisSettings Analysis,
+    IntegratorSettings Integrator,
+    string? OutputDirectory);
