@@ -47,4 +47,11 @@ internal static class ExpressionGenerators
     }
 
     public static readonly Gen<double[]> Point = Gen.Double[-2, 2].Array[3];
+
+    /// <summary>
+    /// Points whose coordinates are not tiny (0.01 ≤ |v| ≤ 2): near 0 a quotient-rule derivative can lose
+    /// all its digits to cancellation while the function itself is flat, which tests rounding, not calculus.
+    /// </summary>
+    public static readonly Gen<double[]> GenericPoint =
+        Gen.Select(Gen.Double[0.01, 2], Gen.Bool, (v, negative) => negative ? -v : v).Array[3];
 }

@@ -54,7 +54,7 @@ public sealed class ExpressionPropertyTests
     public void Derivative_AgreesWithCentralDifference_ForRandomSmoothExpressions()
     {
         var checkedPoints = 0;
-        Gen.Select(ExpressionGenerators.Tree(3, smooth: true), ExpressionGenerators.Point).Sample((tree, point) =>
+        Gen.Select(ExpressionGenerators.Tree(3, smooth: true), ExpressionGenerators.GenericPoint).Sample((tree, point) =>
         {
             double[] x = [point[0], point[1]];
             double[] p = [point[2]];

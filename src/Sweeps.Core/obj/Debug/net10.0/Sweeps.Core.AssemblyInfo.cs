@@ -13,7 +13,7 @@ using System.Reflection;
 [assembly: System.Reflection.AssemblyCompanyAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyConfigurationAttribute("Debug")]
 [assembly: System.Reflection.AssemblyFileVersionAttribute("0.1.0.0")]
-[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+7039fffdae365e21a713d7ecd46a0b8dfd4d9390")]
+[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+fc1bf272998d1f2eec955dd54586f0d6baa7fa28")]
 [assembly: System.Reflection.AssemblyProductAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyTitleAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyVersionAttribute("0.1.0.0")]
