@@ -141,6 +141,11 @@ public sealed class Parser
             throw ExpressionException.At(token.Column, $"'{token.Text}' is a function: call it as {token.Text}(...)");
         }
 
+        if (token.Text == "t" && scope.Resolve("t") is null)
+        {
+            throw ExpressionException.At(token.Column, "unknown name 't' (the time t exists only in flows; maps count iterations)");
+        }
+
         return scope.Resolve(token.Text)
             ?? throw ExpressionException.UnknownName(token.Column, token.Text, scope.KnownNames.Concat(FunctionCatalog.Names));
     }

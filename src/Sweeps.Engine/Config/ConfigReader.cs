@@ -103,7 +103,7 @@ internal sealed class ConfigReader(string file)
 
         if (!double.IsFinite(x))
         {
-            Problem(value.Position, $"{name}: must be finite, not {x}");
+            Problem(value.Position, $"{name}: must be finite, not {(double.IsNaN(x) ? "nan" : x > 0 ? "inf" : "-inf")}");
             return null;
         }
 

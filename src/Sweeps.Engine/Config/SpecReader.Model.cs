@@ -20,6 +20,7 @@ public static partial class SpecReader
             reader.Problem(table.Find("kind")!.Value.Position, "model.kind: flows are not supported by this version yet (only \"map\")");
         }
 
+        var before = reader.Problems.Count;
         var variables = reader.Names(table, "variables", required: true) ?? [];
         var parameters = reader.Names(table, "parameters", required: false) ?? [];
         if (table.Find("variables") is { } declared && variables.Count == 0 && declared.Value is ConfigArray)
@@ -29,6 +30,12 @@ public static partial class SpecReader
 
         CheckNames(reader, variables, parameters);
         var forcing = reader.Number(table, "forcing_period", p => p > 0, "must be > 0");
+        if (reader.Problems.Count > before || table.Find("variables") is null)
+        {
+            // The declarations are unusable; checks that rely on them would only repeat the problem.
+            return null;
+        }
+
         var equations = ReadEquations(reader, table, variables, parameters, kindText == "flow");
         if (kindText is null || equations is null)
         {

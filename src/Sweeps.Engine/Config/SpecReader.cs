@@ -38,8 +38,9 @@ public static partial class SpecReader
         reader.OnlyKeys(root, Sections);
         var model = ReadModel(reader, root);
         var grid = model is null ? null : ReadGrid(reader, root, model);
-        var initial = model is null ? null : ReadValues(reader, root, "initial", model.Variables, grid, AxisTarget.Variable);
-        var parameters = model is null ? null : ReadValues(reader, root, "parameters", model.Parameters, grid, AxisTarget.Parameter);
+        var swept = SweptNames(root);
+        var initial = model is null ? null : ReadValues(reader, root, "initial", model.Variables, grid, swept, AxisTarget.Variable);
+        var parameters = model is null ? null : ReadValues(reader, root, "parameters", model.Parameters, grid, swept, AxisTarget.Parameter);
         var analysis = ReadAnalysis(reader, root);
         var integrator = ReadIntegrator(reader, root);
         var output = ReadOutput(reader, root);
@@ -73,7 +74,12 @@ public static partial class SpecReader
     /// Reads [initial] or [parameters]: every name must be a model name, and every model name not swept
     /// by the grid needs a value. Swept names start at their axis' first value.
     /// </summary>
-    private static double[]? ReadValues(ConfigReader reader, ConfigTable root, string section, IReadOnlyList<string> names, Grid? grid, AxisTarget target)
+    /// <summary>Names written in [grid], valid or not: a broken axis is reported once, not again as a missing value.</summary>
+    private static HashSet<string> SweptNames(ConfigTable root) =>
+        root.Find("grid")?.Value is ConfigTable grid ? grid.Entries.Select(e => e.Key).ToHashSet(StringComparer.Ordinal) : [];
+
+    private static double[]? ReadValues(
+        ConfigReader reader, ConfigTable root, string section, IReadOnlyList<string> names, Grid? grid, HashSet<string> swept, AxisTarget target)
     {
         var table = reader.Table(root, section, required: false) ?? new ConfigTable(section, new SourcePosition(1, 1));
         var values = new double[names.Count];
@@ -90,7 +96,7 @@ public static partial class SpecReader
                 continue;
             }
 
-            if (grid?.Axes.FirstOrDefault(a => a.Name == entry.Key) is not null)
+            if (swept.Contains(entry.Key))
             {
                 reader.Problem(entry.KeyPosition, $"{section}.{entry.Key}: '{entry.Key}' is also swept in [grid]; keep one of the two");
                 continue;
@@ -114,7 +120,7 @@ public static partial class SpecReader
             {
                 values[i] = axis.ValueAt(0);
             }
-            else if (table.Find(names[i]) is null)
+            else if (table.Find(names[i]) is null && !swept.Contains(names[i]))
             {
                 reader.Problem(table.Position, $"{section}: no value for '{names[i]}' (give one here or sweep it in [grid])");
             }

@@ -16,14 +16,13 @@ internal static class TomlReader
         var root = new ConfigTable("", new SourcePosition(1, 1));
         if (document.HasErrors)
         {
-            foreach (var diagnostic in document.Diagnostics)
-            {
-                if (diagnostic.Kind == DiagnosticMessageKind.Error)
-                {
-                    problems.Add(new ConfigProblem(file, At(diagnostic.Span.Start), $"TOML syntax: {diagnostic.Message}"));
-                }
-            }
-
+            // Only the earliest syntax error: the ones after it mostly follow from it.
+            var first = document.Diagnostics
+                .Where(d => d.Kind == DiagnosticMessageKind.Error)
+                .OrderBy(d => d.Span.Start.Line)
+                .ThenBy(d => d.Span.Start.Column)
+                .First();
+            problems.Add(new ConfigProblem(file, At(first.Span.Start), $"TOML syntax: {first.Message}"));
             return root;
         }
 

@@ -17,7 +17,7 @@ public sealed record GridAxis(
 {
     public long Count => Values?.Count ?? Steps;
 
-    /// <summary>The i-th value; the last one is exactly <see cref="To"/>.</summary>
+    /// <summary>The i-th value; the first is exactly <see cref="From"/> and the last exactly <see cref="To"/>.</summary>
     public double ValueAt(long i)
     {
         if (Values is not null)
@@ -25,7 +25,7 @@ public sealed record GridAxis(
             return Values[(int)i];
         }
 
-        if (Steps == 1)
+        if (Steps == 1 || i == 0)
         {
             return From;
         }

@@ -13,7 +13,7 @@ using System.Reflection;
 [assembly: System.Reflection.AssemblyCompanyAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyConfigurationAttribute("Debug")]
 [assembly: System.Reflection.AssemblyFileVersionAttribute("0.1.0.0")]
-[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+fc1bf272998d1f2eec955dd54586f0d6baa7fa28")]
+[assembly: System.Reflection.AssemblyInformationalVersionAttribute("0.1.0+f2e33b4e696352478251989d6a0a7a861cb2cb0d")]
 [assembly: System.Reflection.AssemblyProductAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyTitleAttribute("Sweeps.Core")]
 [assembly: System.Reflection.AssemblyVersionAttribute("0.1.0.0")]
