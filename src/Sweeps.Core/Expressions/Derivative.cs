@@ -74,29 +74,29 @@ public static class Derivative
         switch (node.Function)
         {
             case MathFunction.Atan2:
-            {
-                // atan2(y, x): d = (x dy − y dx) / (x² + y²)
-                var x = node.Arguments[1];
-                var dx = Simplifier.Simplify(D(x, s));
-                return Div(Sub(Mul(x, du), Mul(u, dx)), Add(Pow(x, Two), Pow(u, Two)));
-            }
+                {
+                    // atan2(y, x): d = (x dy − y dx) / (x² + y²)
+                    var x = node.Arguments[1];
+                    var dx = Simplifier.Simplify(D(x, s));
+                    return Div(Sub(Mul(x, du), Mul(u, dx)), Add(Pow(x, Two), Pow(u, Two)));
+                }
 
             case MathFunction.Min or MathFunction.Max:
-            {
-                var v = node.Arguments[1];
-                var dv = Simplifier.Simplify(D(v, s));
-                var half = Mul(Fn(MathFunction.Sign, Sub(u, v)), Sub(du, dv));
-                var sum = node.Function == MathFunction.Min ? Sub(Add(du, dv), half) : Add(Add(du, dv), half);
-                return Div(sum, Two);
-            }
+                {
+                    var v = node.Arguments[1];
+                    var dv = Simplifier.Simplify(D(v, s));
+                    var half = Mul(Fn(MathFunction.Sign, Sub(u, v)), Sub(du, dv));
+                    var sum = node.Function == MathFunction.Min ? Sub(Add(du, dv), half) : Add(Add(du, dv), half);
+                    return Div(sum, Two);
+                }
 
             case MathFunction.Mod:
-            {
-                // mod(a, b) = a − b floor(a/b); floor is piecewise constant.
-                var b = node.Arguments[1];
-                var db = Simplifier.Simplify(D(b, s));
-                return Sub(du, Mul(db, Fn(MathFunction.Floor, Div(u, b))));
-            }
+                {
+                    // mod(a, b) = a − b floor(a/b); floor is piecewise constant.
+                    var b = node.Arguments[1];
+                    var db = Simplifier.Simplify(D(b, s));
+                    return Sub(du, Mul(db, Fn(MathFunction.Floor, Div(u, b))));
+                }
 
             case MathFunction.Pow:
                 return PowerRule(u, node.Arguments[1], du, Simplifier.Simplify(D(node.Arguments[1], s)));
