@@ -11,13 +11,20 @@ namespace Sweeps.Cli;
 /// </summary>
 internal static class CliApp
 {
-    public static int Run(string[] args, TextWriter output, TextWriter error)
+    public static int Run(string[] args, TextWriter output, TextWriter error) =>
+        Run(args, new CliContext(output, error, TimeProvider.System, Interactive: false));
+
+    public static int Run(string[] args, CliContext cli)
     {
+        var (output, error) = (cli.Output, cli.Error);
         var verbose = new Option<bool>("--verbose") { Description = "Show stack traces of failures", Recursive = true };
         var root = new RootCommand("Sweeps maps the operating regimes of nonlinear models over parameter grids.");
         root.Options.Add(verbose);
         root.Subcommands.Add(ProbeCommand.Create(output));
         root.Subcommands.Add(CheckCommand.Create(output));
+        root.Subcommands.Add(RunCommand.Create(cli));
+        root.Subcommands.Add(StatusCommand.Create(cli));
+        root.Subcommands.Add(InspectCommand.Create(cli));
 
         var parsed = root.Parse(args);
         if (parsed.Errors.Count > 0)
@@ -33,7 +40,16 @@ internal static class CliApp
 
         try
         {
-            return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false });
+            var invocation = new InvocationConfiguration
+            {
+                Output = output,
+                Error = error,
+                EnableDefaultExceptionHandler = false,
+
+                // Ctrl-C and SIGTERM cancel the command's token; give a run time to stop its workers cleanly.
+                ProcessTerminationTimeout = TimeSpan.FromSeconds(30),
+            };
+            return parsed.Invoke(invocation);
         }
         catch (ConfigException problems)
         {

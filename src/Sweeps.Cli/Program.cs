@@ -1,3 +1,4 @@
 using Sweeps.Cli;
 
-return CliApp.Run(args, Console.Out, Console.Error);
+var interactive = !Console.IsOutputRedirected && Environment.GetEnvironmentVariable("TERM") is not (null or "dumb");
+return CliApp.Run(args, new CliContext(Console.Out, Console.Error, TimeProvider.System, interactive));

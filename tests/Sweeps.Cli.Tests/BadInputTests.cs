@@ -27,6 +27,17 @@ public sealed class BadInputTests
     [MemberData(nameof(Files))]
     public void Check_ExitsWithTwoAndOneSnapshotLine_ForEveryBadInput(string name) => AssertRejected("check", name);
 
+    [Theory]
+    [MemberData(nameof(Files))]
+    public void Run_ExitsWithTwoAndWritesNothing_ForEveryBadInput(string name)
+    {
+        var target = Path.Combine(Path.GetTempPath(), "sweeps-bad-" + Guid.NewGuid().ToString("N")[..12]);
+        var run = CliRun.Of("run", Path.Combine(Folder, name), "--out", target);
+        Assert.Equal(2, run.ExitCode);
+        Assert.Equal(Expected()[name], Assert.Single(run.ErrorLines).Replace(Folder + Path.DirectorySeparatorChar, ""));
+        Assert.False(Directory.Exists(target));
+    }
+
     [Fact]
     public void Corpus_HasOneSnapshotPerFile()
     {

@@ -63,6 +63,10 @@ public static partial class SpecReader
             {
                 reader.Problem(position, $"model: '{name}' is reserved (a function, a constant or the time t)");
             }
+            else if (Runs.PartSchema.Collides(name))
+            {
+                reader.Problem(position, $"model: '{name}' would collide with an output column; choose another name");
+            }
             else if (!seen.Add(name))
             {
                 reader.Problem(position, $"model: '{name}' is declared twice");

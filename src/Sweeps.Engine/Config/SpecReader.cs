@@ -43,31 +43,32 @@ public static partial class SpecReader
         var parameters = model is null ? null : ReadValues(reader, root, "parameters", model.Parameters, grid, swept, AxisTarget.Parameter);
         var analysis = ReadAnalysis(reader, root);
         var integrator = ReadIntegrator(reader, root);
-        var output = ReadOutput(reader, root);
+        var (output, chunkSize) = ReadOutput(reader, root);
         if (reader.Problems.Count > 0 || model is null || grid is null || initial is null || parameters is null)
         {
             throw new ConfigException(reader.Problems);
         }
 
-        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output);
+        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output, chunkSize);
     }
 
-    private static string? ReadOutput(ConfigReader reader, ConfigTable root)
+    private static (string? Dir, long? ChunkSize) ReadOutput(ConfigReader reader, ConfigTable root)
     {
         var table = reader.Table(root, "output", required: false);
         if (table is null)
         {
-            return null;
+            return (null, null);
         }
 
-        reader.OnlyKeys(table, "dir");
+        reader.OnlyKeys(table, "dir", "chunk_size");
+        var chunkSize = reader.Integer(table, "chunk_size", 1, Planning.ChunkPlan.MaxChunk);
         var dir = reader.String(table, "dir", required: false);
         if (dir is { Length: 0 })
         {
             reader.Problem(table.Find("dir")!.Value.Position, "output.dir: must not be empty");
         }
 
-        return dir;
+        return (dir, chunkSize);
     }
 
     /// <summary>

@@ -10,6 +10,26 @@ namespace Sweeps.Engine.Specs;
 /// </summary>
 public sealed record PointOverrides(double[] Initial, double[] Parameters, IReadOnlyList<string> Notes)
 {
+    /// <summary>
+    /// The spec with the base values changed by <c>--set</c> (for a whole run). Names swept by the grid
+    /// cannot be set: their values come from the grid.
+    /// </summary>
+    public static SweepSpec ApplyToSpec(SweepSpec spec, IReadOnlyList<string> assignments)
+    {
+        var swept = assignments
+            .Select(a => a.Split('=', 2)[0].Trim())
+            .Where(name => spec.Grid.Axes.Any(axis => axis.Name == name))
+            .Select(name => new ConfigProblem($"--set {name}", null, $"'{name}' is swept by the grid; change its axis in the config instead"))
+            .ToList();
+        if (swept.Count > 0)
+        {
+            throw new ConfigException(swept);
+        }
+
+        var point = Apply(spec, assignments);
+        return spec with { Initial = point.Initial, Parameters = point.Parameters };
+    }
+
     public static PointOverrides Apply(SweepSpec spec, IEnumerable<string> assignments)
     {
         var initial = spec.Initial.ToArray();

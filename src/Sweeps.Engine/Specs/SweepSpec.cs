@@ -15,6 +15,7 @@ namespace Sweeps.Engine.Specs;
 /// <param name="Analysis">Per-point analysis settings.</param>
 /// <param name="Integrator">Flow integration settings.</param>
 /// <param name="OutputDirectory">[output] dir, if given.</param>
+/// <param name="ChunkSize">[output] chunk_size: points per chunk and part file, if fixed by the config.</param>
 public sealed record SweepSpec(
     string SourceFile,
     ModelSource Model,
@@ -23,4 +24,5 @@ public sealed record SweepSpec(
     Grid Grid,
     AnalysisSettings Analysis,
     IntegratorSettings Integrator,
-    string? OutputDirectory);
+    string? OutputDirectory,
+    long? ChunkSize = null);

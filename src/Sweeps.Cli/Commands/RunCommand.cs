@@ -1,0 +1,135 @@
+using System.CommandLine;
+using System.Diagnostics;
+using Hangfire;
+using Microsoft.Extensions.DependencyInjection;
+using Sweeps.Cli.Output;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Planning;
+using Sweeps.Engine.Runs;
+using Sweeps.Engine.Specs;
+using Sweeps.Queue;
+
+namespace Sweeps.Cli.Commands;
+
+/// <summary>
+/// <c>sweeps run CONFIG [--out DIR] [--workers N] [--set …]</c>: the embedded run. Creates the run
+/// directory (or resumes the one a previous run of the same spec left), queues every missing chunk on
+/// the in-process Hangfire queue, shows progress and ends with the counts per regime. Stopping it
+/// (Ctrl-C, SIGTERM) keeps the finished parts; in-flight chunks leave nothing behind.
+/// </summary>
+internal static class RunCommand
+{
+    public static Command Create(CliContext cli)
+    {
+        var config = new Argument<string>("CONFIG") { Description = "The sweep config (TOML)" };
+        var outDir = new Option<string?>("--out") { Description = "Run directory (default: [output] dir, else runs/<config name>)" };
+        var workers = new Option<int?>("--workers") { Description = "Worker threads (default: the number of cores)" };
+        var set = new Option<string[]>("--set") { Description = "Set a parameter or initial value that is not swept, e.g. --set h=0.2 (repeatable)" };
+        var command = new Command("run", "Run a sweep on this machine; run it again on the same directory to resume");
+        command.Arguments.Add(config);
+        command.Options.Add(outDir);
+        command.Options.Add(workers);
+        command.Options.Add(set);
+        command.SetAction(async (parse, token) =>
+        {
+            var path = parse.GetRequiredValue(config);
+            var count = parse.GetValue(workers) ?? Environment.ProcessorCount;
+            if (count is < 1 or > 1024)
+            {
+                throw ConfigException.Single("--workers", $"{count} is out of range (1 to 1024)");
+            }
+
+            var overrides = parse.GetValue(set) ?? [];
+            var spec = PointOverrides.ApplyToSpec(SpecReader.Load(path), overrides);
+            var directory = parse.GetValue(outDir) ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(path));
+            return await RunAsync(cli, spec, File.ReadAllText(path), overrides, directory, count, token);
+        });
+        return command;
+    }
+
+    private static async Task<int> RunAsync(
+        CliContext cli, SweepSpec spec, string configText, IReadOnlyList<string> overrides, string directory, int workers, CancellationToken token)
+    {
+        var output = cli.Output;
+        long chunkSize;
+        CostEstimate? estimate = null;
+        if (File.Exists(Path.Combine(directory, "run.json")))
+        {
+            chunkSize = RunDirectory.Open(directory).Manifest.ChunkSize;
+        }
+        else
+        {
+            estimate = CostEstimate.Measure(spec);
+            chunkSize = (spec.ChunkSize is { } size
+                ? ChunkPlan.Fixed(spec.Grid.PointCount, size)
+                : ChunkPlan.For(spec.Grid.PointCount, estimate.SecondsPerPoint, workers)).ChunkSize;
+        }
+
+        var (run, resumed) = RunDirectory.CreateOrResume(directory, spec, configText, overrides, chunkSize, cli.Clock);
+        var missing = run.MissingChunks();
+        var manifest = run.Manifest;
+        var pointsToRun = missing.Sum(chunk => Math.Min(manifest.ChunkSize, manifest.Points - (chunk * manifest.ChunkSize)));
+        SummaryText.Line(output, "run", run.FullPath);
+        SummaryText.Line(output, "points", $"{manifest.Points:N0} in {manifest.ChunkCount:N0} chunk{(manifest.ChunkCount == 1 ? "" : "s")} of up to {manifest.ChunkSize:N0}");
+        if (resumed)
+        {
+            SummaryText.Line(output, "resuming", $"{manifest.ChunkCount - missing.Count:N0} chunks already done, {missing.Count:N0} to run");
+        }
+
+        if (estimate is not null)
+        {
+            var seconds = estimate.SecondsPerPoint * pointsToRun / workers;
+            SummaryText.Line(output, "estimate", $"about {Numbers.Format(seconds, "g3")} s on {workers} worker{(workers == 1 ? "" : "s")}");
+        }
+
+        var clock = Stopwatch.StartNew();
+        if (missing.Count > 0)
+        {
+            var stopped = await ComputeAsync(cli, run, missing, pointsToRun, workers, token);
+            if (stopped is { } code)
+            {
+                return code;
+            }
+        }
+
+        run.MarkFinished(cli.Clock);
+        var summary = await RunSummary.ReadAsync(run, CancellationToken.None);
+        var rate = clock.Elapsed.TotalSeconds > 0 ? pointsToRun / clock.Elapsed.TotalSeconds : 0;
+        SummaryText.Line(output, "finished", $"{pointsToRun:N0} points computed in {Numbers.Format(clock.Elapsed.TotalSeconds, "g3")} s ({rate:N0} points/s)");
+        SummaryText.Line(output, "regimes", SummaryText.Regimes(summary));
+        SummaryText.Line(output, "periods", SummaryText.Periods(summary));
+        return ExitCodes.Success;
+    }
+
+    /// <summary>Computes the missing chunks on the embedded queue; returns an exit code if the run did not complete.</summary>
+    private static async Task<int?> ComputeAsync(CliContext cli, RunDirectory run, IReadOnlyList<long> missing, long pointsToRun, int workers, CancellationToken token)
+    {
+        using var host = EmbeddedQueue.Build(workers);
+        var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
+        EmbeddedQueue.Enqueue(host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing);
+        await host.StartAsync(CancellationToken.None);
+        bool Pending() => counters.ChunksDone + counters.ChunksFailed < missing.Count;
+        await ProgressView.Create(cli.Output, cli.Interactive).ShowAsync(pointsToRun, () => counters.Points, Pending, token);
+        await host.StopAsync(CancellationToken.None);
+
+        if (token.IsCancellationRequested && Pending())
+        {
+            var done = run.Manifest.ChunkCount - run.MissingChunks().Count;
+            cli.Error.WriteLine($"stopped: {done:N0} of {run.Manifest.ChunkCount:N0} chunks are done and kept; run the same command again to resume");
+            return ExitCodes.Failed;
+        }
+
+        if (counters.ChunksFailed > 0)
+        {
+            foreach (var failure in counters.Failures)
+            {
+                cli.Error.WriteLine($"failed: {failure}");
+            }
+
+            cli.Error.WriteLine($"{counters.ChunksFailed} chunk(s) failed; the others are kept; fix the cause and run again to resume");
+            return ExitCodes.Failed;
+        }
+
+        return null;
+    }
+}

@@ -1,0 +1,89 @@
+using System.Runtime.CompilerServices;
+using Sweeps.Core.Analysis;
+using Sweeps.Engine.Runs;
+
+namespace Sweeps.Engine.Execution;
+
+/// <summary>
+/// Computes one chunk — a contiguous range of point indices — and writes its part file. A point's
+/// result depends only on the spec and its index, never on the chunk, the worker or the order, which
+/// is what makes runs resumable and bit-for-bit reproducible. A point whose analysis throws is
+/// recorded as unresolved with the reason; it never fails the chunk.
+/// </summary>
+public static class ChunkRunner
+{
+    private const int ProgressEvery = 256;
+
+    /// <summary>Runs the chunk unless its part already exists; returns the number of points computed.</summary>
+    public static async Task<long> RunAsync(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
+    {
+        var run = context.Run;
+        var path = run.PartPath(chunk);
+        if (File.Exists(path))
+        {
+            return 0;
+        }
+
+        var columns = Compute(context, chunk, progress, token);
+        await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
+        return columns.Count;
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static ChunkColumns Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
+    {
+        var spec = context.Spec;
+        var manifest = context.Run.Manifest;
+        var first = chunk * manifest.ChunkSize;
+        var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
+        var analyzer = new MapAnalyzer(context.Model, spec.Analysis);
+        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count);
+        var initial = new double[spec.Initial.Count];
+        var parameters = new double[spec.Parameters.Count];
+        var axisValues = new double[spec.Grid.Axes.Count];
+        var pending = 0L;
+        for (var point = first; point < last; point++)
+        {
+            for (var i = 0; i < initial.Length; i++)
+            {
+                initial[i] = spec.Initial[i];
+            }
+
+            for (var i = 0; i < parameters.Length; i++)
+            {
+                parameters[i] = spec.Parameters[i];
+            }
+
+            spec.Grid.Apply(point, initial, parameters);
+            for (var a = 0; a < axisValues.Length; a++)
+            {
+                var axis = spec.Grid.Axes[a];
+                axisValues[a] = (axis.Target == Specs.AxisTarget.Parameter ? parameters : initial)[axis.Slot];
+            }
+
+            columns.Add(point, axisValues, Analyze(analyzer, initial, parameters));
+            if (++pending == ProgressEvery)
+            {
+                token.ThrowIfCancellationRequested();
+                progress?.Invoke(pending);
+                pending = 0;
+            }
+        }
+
+        progress?.Invoke(pending);
+        return columns;
+    }
+
+    private static PointResult Analyze(MapAnalyzer analyzer, double[] initial, double[] parameters)
+    {
+        try
+        {
+            return analyzer.Analyze(initial, parameters);
+        }
+        catch (Exception error) when (error is ArithmeticException or ArgumentException or InvalidOperationException or IndexOutOfRangeException)
+        {
+            var nan = Enumerable.Repeat(double.NaN, initial.Length).ToArray();
+            return new PointResult(Regime.Unresolved, 0, [], [], double.NaN, nan, [], null, $"analysis failed: {error.Message}", []);
+        }
+    }
+}

@@ -1,0 +1,39 @@
+using Sweeps.Core.Models;
+using Sweeps.Engine.Probing;
+using Sweeps.Engine.Runs;
+using Sweeps.Engine.Specs;
+
+namespace Sweeps.Engine.Execution;
+
+/// <summary>
+/// Everything a worker needs to compute chunks of one run, built once per process: the spec read
+/// back from the run directory (so every worker computes exactly what was submitted), the compiled
+/// model, the part schema and the part-file metadata.
+/// </summary>
+public sealed class RunContext
+{
+    public RunContext(RunDirectory run)
+    {
+        Run = run;
+        Spec = run.LoadSpec();
+        Model = ModelFactory.Build(Spec);
+        Schema = new PartSchema(Spec);
+        Metadata = new Dictionary<string, string>
+        {
+            ["sweeps.spec_hash"] = run.Manifest.SpecHash,
+            ["sweeps.model_hash"] = run.Manifest.ModelHash,
+            ["sweeps.version"] = run.Manifest.ProgramVersion,
+            ["sweeps.samples_layout"] = string.Join(",", Spec.Model.Variables),
+        };
+    }
+
+    public RunDirectory Run { get; }
+
+    public SweepSpec Spec { get; }
+
+    public Model Model { get; }
+
+    public PartSchema Schema { get; }
+
+    public IReadOnlyDictionary<string, string> Metadata { get; }
+}

@@ -1,0 +1,92 @@
+using Sweeps.Core.Analysis;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>The results of one chunk, column by column, ready for a part file. Sized once per chunk.</summary>
+internal sealed class ChunkColumns
+{
+    private readonly int n;
+
+    public ChunkColumns(int capacity, int axes, int dimension)
+    {
+        n = dimension;
+        Point = new long[capacity];
+        Axis = Columns(axes, capacity);
+        Regime = new string[capacity];
+        Period = new int[capacity];
+        Lyapunov = Columns(dimension, capacity);
+        LyapunovError = Columns(dimension, capacity);
+        Final = Columns(dimension, capacity);
+        Reason = new string?[capacity];
+    }
+
+    public int Count { get; private set; }
+
+    public long[] Point { get; }
+
+    public double[][] Axis { get; }
+
+    public string[] Regime { get; }
+
+    public int[] Period { get; }
+
+    public double[][] Lyapunov { get; }
+
+    public double[][] LyapunovError { get; }
+
+    public double[][] Final { get; }
+
+    public string?[] Reason { get; }
+
+    /// <summary>Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list; repetition 0 starts a row.</summary>
+    public List<double> SampleValues { get; } = [];
+
+    public List<int> SampleDefinitions { get; } = [];
+
+    public List<int> SampleRepetitions { get; } = [];
+
+    public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result)
+    {
+        var row = Count++;
+        Point[row] = point;
+        for (var a = 0; a < Axis.Length; a++)
+        {
+            Axis[a][row] = axisValues[a];
+        }
+
+        Regime[row] = result.Regime.ToText();
+        Period[row] = result.Period;
+        for (var i = 0; i < n; i++)
+        {
+            Lyapunov[i][row] = i < result.Lyapunov.Length ? result.Lyapunov[i] : double.NaN;
+            LyapunovError[i][row] = i < result.LyapunovError.Length ? result.LyapunovError[i] : double.NaN;
+            Final[i][row] = result.FinalState[i];
+        }
+
+        Reason[row] = result.Reason;
+        if (result.Samples.Length == 0)
+        {
+            SampleDefinitions.Add(1);
+            SampleRepetitions.Add(0);
+            return;
+        }
+
+        for (var i = 0; i < result.Samples.Length; i++)
+        {
+            SampleValues.Add(result.Samples[i]);
+            SampleDefinitions.Add(2);
+            SampleRepetitions.Add(i == 0 ? 0 : 1);
+        }
+    }
+
+    private static double[][] Columns(int count, int capacity)
+    {
+        var columns = new double[count][];
+        for (var i = 0; i < count; i++)
+        {
+            columns[i] = new double[capacity];
+        }
+
+        return columns;
+    }
+}

@@ -1,0 +1,65 @@
+using Parquet.Schema;
+using Sweeps.Engine.Specs;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// The columns of a part file, in order: <c>point</c>, one column per grid axis, <c>regime</c>,
+/// <c>period</c>, <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
+/// <c>reason</c> and <c>samples</c> (the last states, row-major, as a list). Part of the output contract.
+/// </summary>
+public sealed class PartSchema
+{
+    public PartSchema(SweepSpec spec)
+    {
+        var n = spec.Model.Variables.Count;
+        Point = new DataField<long>("point");
+        Axes = spec.Grid.Axes.Select(a => new DataField<double>(a.Name)).ToArray();
+        Regime = new DataField<string>("regime");
+        Period = new DataField<int>("period");
+        Lyapunov = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_{i}")).ToArray();
+        LyapunovError = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_error_{i}")).ToArray();
+        Final = spec.Model.Variables.Select(v => new DataField<double>($"final_{v}")).ToArray();
+        Reason = new DataField<string>("reason", true);
+        SampleValue = new DataField<double>("element");
+        Samples = new ListField("samples", SampleValue);
+        Schema = new ParquetSchema(
+            new Field[] { Point }
+                .Concat(Axes)
+                .Append(Regime)
+                .Append(Period)
+                .Concat(Lyapunov)
+                .Concat(LyapunovError)
+                .Concat(Final)
+                .Append(Reason)
+                .Append(Samples));
+    }
+
+    /// <summary>Names a model may not use, because they would collide with a fixed column.</summary>
+    public static bool Collides(string name) =>
+        name is "point" or "regime" or "period" or "reason" or "samples"
+        || name.StartsWith("lyapunov_", StringComparison.Ordinal)
+        || name.StartsWith("final_", StringComparison.Ordinal);
+
+    public ParquetSchema Schema { get; }
+
+    public DataField<long> Point { get; }
+
+    public IReadOnlyList<DataField<double>> Axes { get; }
+
+    public DataField<string> Regime { get; }
+
+    public DataField<int> Period { get; }
+
+    public IReadOnlyList<DataField<double>> Lyapunov { get; }
+
+    public IReadOnlyList<DataField<double>> LyapunovError { get; }
+
+    public IReadOnlyList<DataField<double>> Final { get; }
+
+    public DataField<string> Reason { get; }
+
+    public DataField<double> SampleValue { get; }
+
+    public ListField Samples { get; }
+}

@@ -1,0 +1,68 @@
+using Parquet;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// Writes a chunk's columns as one Parquet file (Parquet.Net column API, Snappy, one row group per
+/// chunk). The file is written under a temporary name in the same folder and renamed into place, so
+/// readers and resumes never see a partial part. Nothing time-dependent goes into it: the same chunk
+/// always gives the same bytes.
+/// </summary>
+internal static class PartWriter
+{
+    public static async Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    {
+        var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
+        try
+        {
+            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
+            {
+                var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
+                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, options, false, token);
+                writer.CustomMetadata = metadata.ToDictionary();
+                using var group = writer.CreateRowGroup();
+                var count = columns.Count;
+                await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point, 0, count), null, null, token);
+                for (var a = 0; a < schema.Axes.Count; a++)
+                {
+                    await group.WriteAsync(schema.Axes[a], new ReadOnlyMemory<double>(columns.Axis[a], 0, count), null, null, token);
+                }
+
+                await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
+                await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
+                await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
+                await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
+                await WriteAll(group, schema.Final, columns.Final, count, token);
+                await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
+                await group.WriteAllPartsAsync<double>(
+                    schema.SampleValue,
+                    columns.SampleValues.ToArray(),
+                    new ReadOnlyMemory<int>(columns.SampleDefinitions.ToArray()),
+                    new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
+                    token);
+            }
+
+            // At-least-once delivery can run a chunk twice; the first complete file wins, and both are identical.
+            if (!File.Exists(path))
+            {
+                File.Move(temporary, path, overwrite: false);
+            }
+        }
+        catch (IOException) when (File.Exists(path))
+        {
+            // Another run of the same chunk renamed its file first.
+        }
+        finally
+        {
+            File.Delete(temporary);
+        }
+    }
+
+    private static async Task WriteAll(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count, CancellationToken token)
+    {
+        for (var i = 0; i < fields.Count; i++)
+        {
+            await group.WriteAsync(fields[i], new ReadOnlyMemory<double>(values[i], 0, count), null, null, token);
+        }
+    }
+}

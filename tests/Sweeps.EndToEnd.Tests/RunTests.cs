@@ -1,0 +1,199 @@
+using System.Diagnostics;
+
+namespace Sweeps.EndToEnd.Tests;
+
+/// <summary>The sweep pipeline through the real executable, read back with an independent Parquet reader.</summary>
+public sealed class RunTests
+{
+    // A Hénon-type map over a 2-D grid: 24 values of a × 20 initial x = 480 points in chunks of 50.
+    private const string TwoAxisConfig = """
+        [model]
+        kind = "map"
+        variables = ["x", "y"]
+        parameters = ["a", "b"]
+        [model.equations]
+        x = "1 - a*x^2 + y"
+        y = "b*x"
+        [initial]
+        y = 0.0
+        [parameters]
+        b = 0.3
+        [grid]
+        a = { from = 0.2, to = 2.0, steps = 24 }
+        x = { from = -0.5, to = 0.5, steps = 20 }
+        [analysis]
+        transient = 500
+        measure = 1000
+        max_period = 32
+        samples = 8
+        [output]
+        chunk_size = 50
+        """;
+
+    // A logistic-type map over 24 000 points in chunks of 400: a few seconds on one worker.
+    private const string LongConfig = """
+        [model]
+        kind = "map"
+        variables = ["x"]
+        parameters = ["r"]
+        [model.equations]
+        x = "r*x*(1 - x)"
+        [initial]
+        x = 0.3
+        [grid]
+        r = { from = 2.5, to = 4.0, steps = 24000 }
+        [analysis]
+        transient = 2000
+        measure = 2000
+        lyapunov = "largest"
+        [output]
+        chunk_size = 400
+        """;
+
+    [Fact]
+    public void Run_WritesEveryGridPointExactlyOnce_ReadByAnIndependentReader()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("reactor.toml", TwoAxisConfig);
+        var (code, output, error) = SweepsProcess.Run(temp.Path, "run", config, "--out", "out");
+        Assert.True(code == 0, error);
+        Assert.Contains("finished", output);
+
+        var data = IndependentReader.ReadRun(Path.Combine(temp.Path, "out"));
+        Assert.Equal(
+            [
+                "point", "a", "x", "regime", "period", "lyapunov_1", "lyapunov_2", "lyapunov_error_1", "lyapunov_error_2",
+                "final_x", "final_y", "reason", "samples.list.element",
+            ],
+            data.Columns);
+        Assert.Equal(
+            ["Int64", "Double", "Double", "ByteArray", "Int32", "Double", "Double", "Double", "Double", "Double", "Double", "ByteArray", "Double"],
+            data.Types);
+        Assert.Equal(480, data.Rows.Count);
+        Assert.Equal(Enumerable.Range(0, 480).Select(i => (long)i), data.Rows.Select(r => (long)r[0]!).Order());
+        Assert.Equal(10, Directory.GetFiles(Path.Combine(temp.Path, "out", "parts"), "*.parquet").Length);
+
+        // Row-major: the last axis (x) varies fastest; the grid's end points are exact.
+        var last = data.Rows.Single(r => (long)r[0]! == 479);
+        Assert.Equal(2.0, (double)last[1]!);
+        Assert.Equal(0.5, (double)last[2]!);
+        var second = data.Rows.Single(r => (long)r[0]! == 1);
+        Assert.Equal(0.2, (double)second[1]!);
+        Assert.NotEqual(-0.5, (double)second[2]!);
+
+        // Exact: det J = −b, so every bounded orbit's exponents sum to ln 0.3.
+        foreach (var row in data.Rows.Where(r => (string)r[3]! is "chaotic" or "periodic" or "fixed-point"))
+        {
+            Assert.Equal(Math.Log(0.3), (double)row[5]! + (double)row[6]!, 9);
+        }
+
+        var regimes = data.Rows.Select(r => (string)r[3]!).ToHashSet();
+        Assert.Subset(new HashSet<string> { "fixed-point", "periodic", "quasi-periodic", "chaotic", "hyperchaotic", "divergent", "unresolved" }, regimes);
+        Assert.Contains("chaotic", regimes);
+        Assert.Contains("divergent", regimes);
+        Assert.All(data.Rows.Where(r => (string)r[3]! == "divergent"), r => Assert.Empty((double[])r[12]!));
+        Assert.All(data.Rows.Where(r => (string)r[3]! == "chaotic"), r => Assert.Equal(16, ((double[])r[12]!).Length));
+
+        var metadata = IndependentReader.Metadata(Path.Combine(temp.Path, "out", "parts", "part-000000.parquet"));
+        Assert.Matches("^[0-9a-f]{64}$", metadata["sweeps.spec_hash"]);
+        Assert.Matches("^[0-9a-f]{64}$", metadata["sweeps.model_hash"]);
+        Assert.Equal("x,y", metadata["sweeps.samples_layout"]);
+    }
+
+    [Fact]
+    public void Run_GivesBitIdenticalResults_WithOneOrTwoWorkers()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("reactor.toml", TwoAxisConfig);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "one", "--workers", "1").ExitCode);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "two", "--workers", "2").ExitCode);
+        Assert.Equal(
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "one")).Hash(),
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "two")).Hash());
+        foreach (var part in Directory.GetFiles(Path.Combine(temp.Path, "one", "parts")))
+        {
+            Assert.Equal(File.ReadAllBytes(part), File.ReadAllBytes(Path.Combine(temp.Path, "two", "parts", Path.GetFileName(part))));
+        }
+    }
+
+    [Fact]
+    public void Run_ResumesAfterKill_AndMatchesAnUninterruptedRun()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("stock.toml", LongConfig);
+        var parts = Path.Combine(temp.Path, "killed", "parts");
+        using (var process = SweepsProcess.Start(temp.Path, "run", config, "--out", "killed", "--workers", "1"))
+        {
+            var clock = Stopwatch.StartNew();
+            while (!(Directory.Exists(parts) && Directory.GetFiles(parts, "*.parquet").Length >= 3) && clock.Elapsed < TimeSpan.FromMinutes(2))
+            {
+                Thread.Sleep(20);
+            }
+
+            process.Kill(entireProcessTree: true);
+            process.WaitForExit();
+        }
+
+        var kept = Directory.GetFiles(parts, "*.parquet").Length;
+        Assert.InRange(kept, 3, 59);
+
+        var (code, output, error) = SweepsProcess.Run(temp.Path, "run", config, "--out", "killed");
+        Assert.True(code == 0, error);
+        Assert.Contains("resuming", output);
+        Assert.Empty(Directory.GetFiles(parts, "*.tmp-*"));
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "whole").ExitCode);
+        Assert.Equal(
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "whole")).Hash(),
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "killed")).Hash());
+        Assert.Equal(24000, IndependentReader.ReadRun(Path.Combine(temp.Path, "killed")).Rows.Count);
+    }
+
+    [Fact]
+    public void Run_RefusesADirectoryOfAnotherSpec_AndLeavesItAlone()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("reactor.toml", TwoAxisConfig);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "out").ExitCode);
+        var before = File.ReadAllText(Path.Combine(temp.Path, "out", "run.json"));
+        var (code, _, error) = SweepsProcess.Run(temp.Path, "run", config, "--out", "out", "--set", "b=0.2");
+        Assert.Equal(2, code);
+        Assert.Single(error.Split('\n', StringSplitOptions.RemoveEmptyEntries));
+        Assert.Contains("holds a run of a different spec (its settings or grid differ", error);
+        Assert.Equal(before, File.ReadAllText(Path.Combine(temp.Path, "out", "run.json")));
+    }
+
+    [Fact]
+    public void Run_ExitsWithTwoAndWritesNothing_WhenOutputCannotBeCreated()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("reactor.toml", TwoAxisConfig);
+        var blocker = temp.Write("blocker", "a file, not a folder");
+        var (code, output, error) = SweepsProcess.Run(temp.Path, "run", config, "--out", Path.Combine(blocker, "run"));
+        Assert.Equal(2, code);
+        Assert.Equal("", output);
+        Assert.StartsWith($"{Path.Combine(blocker, "run")}: cannot create run directory:", Assert.Single(error.Split('\n', StringSplitOptions.RemoveEmptyEntries)));
+    }
+
+    [Fact]
+    public void InspectAndStatus_SummariseTheRun_AsJson()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("reactor.toml", TwoAxisConfig);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "out").ExitCode);
+        var (code, output, _) = SweepsProcess.Run(temp.Path, "inspect", "out", "--json");
+        Assert.Equal(0, code);
+        using var json = System.Text.Json.JsonDocument.Parse(output);
+        var root = json.RootElement;
+        Assert.Equal("finished", root.GetProperty("state").GetString());
+        Assert.Equal(480, root.GetProperty("points_done").GetInt64());
+        var counted = root.GetProperty("regimes").EnumerateObject().Sum(r => r.Value.GetInt64());
+        Assert.Equal(480, counted);
+        var data = IndependentReader.ReadRun(Path.Combine(temp.Path, "out"));
+        Assert.Equal(data.Rows.Count(r => (string)r[3]! == "chaotic"), root.GetProperty("regimes").GetProperty("chaotic").GetInt64());
+
+        var status = SweepsProcess.Run(temp.Path, "status", "out", "--json");
+        using var statusJson = System.Text.Json.JsonDocument.Parse(status.Output);
+        Assert.Equal(10, statusJson.RootElement.GetProperty("chunks_done").GetInt64());
+        Assert.Equal(0, statusJson.RootElement.GetProperty("missing_chunks").GetArrayLength());
+    }
+}

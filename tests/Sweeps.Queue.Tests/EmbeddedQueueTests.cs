@@ -1,0 +1,80 @@
+using Hangfire;
+using Microsoft.Extensions.DependencyInjection;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Runs;
+
+namespace Sweeps.Queue.Tests;
+
+/// <summary>Chunk jobs through the real Hangfire machinery on in-memory storage.</summary>
+public sealed class EmbeddedQueueTests : IDisposable
+{
+    private const string Config = """
+        [model]
+        kind = "map"
+        variables = ["x"]
+        parameters = ["r"]
+        [model.equations]
+        x = "r*x*(1 - x)"
+        [initial]
+        x = 0.3
+        [grid]
+        r = { from = 2.9, to = 3.3, steps = 300 }
+        [analysis]
+        transient = 500
+        measure = 500
+        lyapunov = "largest"
+        max_period = 16
+        """;
+
+    private readonly string folder = Path.Combine(Path.GetTempPath(), "sweeps-queue-" + Guid.NewGuid().ToString("N")[..12]);
+
+    [Fact]
+    public async Task Jobs_WriteEveryPart_AndCountEveryPoint()
+    {
+        var run = CreateRun(chunkSize: 32);
+        using var host = EmbeddedQueue.Build(workers: 2);
+        var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
+        EmbeddedQueue.Enqueue(host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, run.MissingChunks());
+        await host.StartAsync();
+        var deadline = DateTime.UtcNow.AddMinutes(1);
+        while (counters.ChunksDone + counters.ChunksFailed < 10 && DateTime.UtcNow < deadline)
+        {
+            await Task.Delay(20);
+        }
+
+        await host.StopAsync();
+        Assert.Equal(10, counters.ChunksDone);
+        Assert.Equal(0, counters.ChunksFailed);
+        Assert.Equal(300, counters.Points);
+        Assert.Empty(run.MissingChunks());
+
+        // Exact: on the logistic fixed point (r < 3) the period is 1; on the 2-cycle (3 < r < 1+√6) it is 2.
+        var summary = await RunSummary.ReadAsync(run);
+        Assert.Equal(300, summary.PointsDone);
+        Assert.True(summary.Periods[1] > 0 && summary.Periods[2] > 0);
+    }
+
+    [Fact]
+    public void Contexts_CompileEachRunOncePerProcess()
+    {
+        var run = CreateRun(chunkSize: 100);
+        var contexts = new RunContexts();
+        var first = contexts.Get(run.FullPath);
+        Assert.Same(first, contexts.Get(run.FullPath + Path.DirectorySeparatorChar));
+        Assert.Same(first.Model, contexts.Get(run.FullPath).Model);
+    }
+
+    public void Dispose()
+    {
+        if (Directory.Exists(folder))
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    private RunDirectory CreateRun(long chunkSize)
+    {
+        var spec = SpecReader.Parse(Config, "queue.toml");
+        return RunDirectory.CreateOrResume(Path.Combine(folder, "run"), spec, Config, [], chunkSize, TimeProvider.System).Run;
+    }
+}
