@@ -41,6 +41,17 @@ internal sealed record IndependentReader(IReadOnlyList<string> Columns, IReadOnl
         return new IndependentReader(columns, types, rows);
     }
 
+    /// <summary>The number of rows of one part file, read through its row groups.</summary>
+    public static long ReadRunFile(string partFile)
+    {
+        using var reader = new ParquetFileReader(partFile);
+        return Enumerable.Range(0, reader.FileMetaData.NumRowGroups).Sum(g =>
+        {
+            using var group = reader.RowGroup(g);
+            return group.MetaData.NumRows;
+        });
+    }
+
     public static IReadOnlyDictionary<string, string> Metadata(string partFile)
     {
         using var reader = new ParquetFileReader(partFile);

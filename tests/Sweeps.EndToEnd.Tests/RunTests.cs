@@ -149,6 +149,35 @@ public sealed class RunTests
     }
 
     [Fact]
+    public async Task Run_StopsCleanlyOnInterrupt_KeepingFinishedPartsOnly()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("stock.toml", LongConfig);
+        var parts = Path.Combine(temp.Path, "stopped", "parts");
+        using var process = SweepsProcess.Start(temp.Path, "run", config, "--out", "stopped", "--workers", "2");
+        var error = process.StandardError.ReadToEndAsync();
+        var clock = Stopwatch.StartNew();
+        while (!(Directory.Exists(parts) && Directory.GetFiles(parts, "*.parquet").Length >= 2) && clock.Elapsed < TimeSpan.FromMinutes(2))
+        {
+            Thread.Sleep(20);
+        }
+
+        // What Ctrl-C sends.
+        using (var interrupt = Process.Start("kill", ["-INT", process.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)]))
+        {
+            interrupt.WaitForExit();
+        }
+
+        Assert.True(process.WaitForExit(TimeSpan.FromSeconds(60)), "the run did not stop after SIGINT");
+        Assert.Equal(1, process.ExitCode);
+        Assert.Contains("run the same command again to resume", await error);
+        Assert.Empty(Directory.GetFiles(parts, "*.tmp-*"));
+        var kept = Directory.GetFiles(parts, "*.parquet");
+        Assert.InRange(kept.Length, 2, 59);
+        Assert.All(kept, part => Assert.Equal(400, IndependentReader.ReadRunFile(part)));
+    }
+
+    [Fact]
     public void Run_RefusesADirectoryOfAnotherSpec_AndLeavesItAlone()
     {
         using var temp = new TempFolder();
