@@ -1,5 +1,6 @@
 using Sweeps.Core.Analysis;
 using Sweeps.Engine.Specs;
+using Sweeps.Core.Integrators;
 
 namespace Sweeps.Engine.Config;
 

@@ -1,3 +1,4 @@
+using Sweeps.Core.Integrators;
 using Sweeps.Core.Analysis;
 using Sweeps.Core.Models;
 

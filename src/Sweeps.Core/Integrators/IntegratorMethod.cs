@@ -1,4 +1,4 @@
-namespace Sweeps.Engine.Specs;
+namespace Sweeps.Core.Integrators;
 
 public enum IntegratorMethod
 {
