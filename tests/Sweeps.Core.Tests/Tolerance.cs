@@ -12,6 +12,9 @@ internal static class Tolerance
     /// <summary>Published Hénon exponents as tabulated (absolute).</summary>
     public const double PublishedHenonExponent = 3e-3;
 
+    /// <summary>Published exponents of chaotic flows after T ≈ 10^4 (absolute).</summary>
+    public const double PublishedFlowExponent = 0.01;
+
     /// <summary>Two floating-point evaluations of one formula by different routes (relative).</summary>
     public const double Rounding = 1e-12;
 

@@ -8,7 +8,7 @@ namespace Sweeps.Core.Analysis;
 /// (Benettin/QR method), then period detection and classification. An instance owns all its buffers
 /// and is reused for every point of a chunk; it is not thread-safe — use one per worker.
 /// </summary>
-public sealed class MapAnalyzer
+public sealed class MapAnalyzer : IPointAnalyzer
 {
     private readonly Model model;
     private readonly AnalysisSettings settings;

@@ -29,10 +29,14 @@ internal sealed class PeriodDetector
 
     public int Count => count;
 
+    /// <summary>States pushed since the last reset (the ring keeps the last <see cref="Capacity"/>).</summary>
+    public long Pushed { get; private set; }
+
     public void Reset()
     {
         count = 0;
         next = 0;
+        Pushed = 0;
     }
 
     public void Push(ReadOnlySpan<double> state)
@@ -40,6 +44,7 @@ internal sealed class PeriodDetector
         state.CopyTo(ring.AsSpan(next * n, n));
         next = (next + 1) % Capacity;
         count = Math.Min(count + 1, Capacity);
+        Pushed++;
     }
 
     /// <summary>The i-th stored state, 0 being the oldest.</summary>

@@ -13,7 +13,7 @@ public sealed class Model
         Source = source;
         Equations = equations;
         Jacobian = jacobian;
-        UsesTime = equations.Any(e => Mentions(e, SymbolKind.Time));
+        UsesTime = equations.Any(e => ExpressionQueries.Mentions(e, SymbolKind.Time));
         Evaluate = ExpressionCompiler.Compile(equations);
         EvaluateJacobian = ExpressionCompiler.Compile(jacobian);
     }
@@ -81,13 +81,4 @@ public sealed class Model
         model = new Model(source, equations, jacobian);
         return true;
     }
-
-    private static bool Mentions(Node node, SymbolKind kind) => node switch
-    {
-        SymbolNode symbol => symbol.Kind == kind,
-        NegateNode negate => Mentions(negate.Operand, kind),
-        BinaryNode binary => Mentions(binary.Left, kind) || Mentions(binary.Right, kind),
-        CallNode call => call.Arguments.Any(a => Mentions(a, kind)),
-        _ => false,
-    };
 }
