@@ -20,7 +20,7 @@ internal static class DirectLoop
         var clock = Stopwatch.StartNew();
         var threads = Enumerable.Range(0, workers).Select(w => new Thread(() =>
         {
-            var analyzer = new MapAnalyzer(model, spec.Analysis);
+            var analyzer = AnalyzerFactory.Create(spec, model);
             var initial = new double[spec.Initial.Count];
             var parameters = new double[spec.Parameters.Count];
             var (first, last) = (points * w / workers, points * (w + 1) / workers);

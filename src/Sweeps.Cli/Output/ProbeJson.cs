@@ -21,7 +21,8 @@ internal static class ProbeJson
             JsonNumbers.WriteObject(json, "initial", model.Variables, report.Initial);
             json.WriteString("regime", result.Regime.ToText());
             json.WriteNumber("period", result.Period);
-            json.WriteNull("period_time");
+            json.WritePropertyName("period_time");
+            JsonNumbers.Write(json, result.PeriodTime);
             json.WriteStartArray("cycle");
             foreach (var point in result.Cycle)
             {

@@ -1,4 +1,5 @@
 using Sweeps.Core.Analysis;
+using Sweeps.Core.Models;
 using Sweeps.Engine.Probing;
 
 namespace Sweeps.Cli.Output;
@@ -29,7 +30,7 @@ internal static class ProbeText
             Line(output, "reason", reason);
         }
 
-        Line(output, "period", result.Period == 0 ? "none found" : $"{result.Period} iteration{(result.Period == 1 ? "" : "s")}");
+        Line(output, "period", PeriodText(report));
         if (result.Period > 1)
         {
             for (var i = 0; i < result.Cycle.Count; i++)
@@ -38,7 +39,7 @@ internal static class ProbeText
             }
         }
 
-        WriteExponents(output, result);
+        WriteExponents(output, result, model.Kind);
         Line(output, "final state", Numbers.Assignments(model.Variables, result.FinalState));
         output.WriteLine();
         output.WriteLine(report.FixedPoints.Count == 0 ? "fixed points: none found" : $"fixed points: {report.FixedPoints.Count}");
@@ -50,7 +51,25 @@ internal static class ProbeText
         }
     }
 
-    private static void WriteExponents(TextWriter output, PointResult result)
+    private static string PeriodText(ProbeReport report)
+    {
+        var result = report.Result;
+        if (result.Period == 0)
+        {
+            return "none found";
+        }
+
+        var plural = result.Period == 1 ? "" : "s";
+        if (report.Model.Kind == ModelKind.Map)
+        {
+            return $"{result.Period} iteration{plural}";
+        }
+
+        var unit = report.Model.UsesTime ? $"forcing period{plural}" : $"section return{plural}";
+        return $"{result.Period} {unit}, T = {Numbers.Format(result.PeriodTime, "g9")}";
+    }
+
+    private static void WriteExponents(TextWriter output, PointResult result, ModelKind kind)
     {
         if (result.Lyapunov.Length == 0)
         {
@@ -66,7 +85,8 @@ internal static class ProbeText
 
         if (!double.IsNaN(result.LogDetMean))
         {
-            Line(output, "", $"sum {Numbers.Format(result.Lyapunov.Sum())}; mean ln|det J| {Numbers.Format(result.LogDetMean)}");
+            var check = kind == ModelKind.Map ? "mean ln|det J|" : "time-averaged div f";
+            Line(output, "", $"sum {Numbers.Format(result.Lyapunov.Sum())}; {check} {Numbers.Format(result.LogDetMean)}");
         }
     }
 

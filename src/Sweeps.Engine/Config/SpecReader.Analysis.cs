@@ -1,14 +1,20 @@
 using Sweeps.Core.Analysis;
-using Sweeps.Engine.Specs;
 using Sweeps.Core.Integrators;
+using Sweeps.Core.Models;
+using Sweeps.Engine.Specs;
 
 namespace Sweeps.Engine.Config;
 
 public static partial class SpecReader
 {
-    private static AnalysisSettings ReadAnalysis(ConfigReader reader, ConfigTable root)
+    /// <summary>Defaults: maps count iterations; flows measure time and compare section points more loosely, as integration has its own error.</summary>
+    private static AnalysisSettings Defaults(ModelKind kind) => kind == ModelKind.Map
+        ? new AnalysisSettings()
+        : new AnalysisSettings(Transient: 200, Measure: 1000, Tolerance: 1e-6, ZeroBand: 5e-3);
+
+    private static AnalysisSettings ReadAnalysis(ConfigReader reader, ConfigTable root, ModelKind kind)
     {
-        var defaults = new AnalysisSettings();
+        var defaults = Defaults(kind);
         var table = reader.Table(root, "analysis", required: false);
         if (table is null)
         {
@@ -18,7 +24,7 @@ public static partial class SpecReader
         reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples");
         var maxPeriod = (int)(reader.Integer(table, "max_period", 1, 4096) ?? defaults.MaxPeriod);
         var measure = reader.Integer(table, "measure", 2, 10_000_000_000) ?? defaults.Measure;
-        if (measure < 2 * maxPeriod && table.Find("measure") is { } entry)
+        if (kind == ModelKind.Map && measure < 2 * maxPeriod && table.Find("measure") is { } entry)
         {
             reader.Problem(entry.Value.Position, $"analysis.measure: {measure} is shorter than 2 × max_period = {2 * maxPeriod} (a cycle must be seen twice)");
         }
@@ -55,7 +61,7 @@ public static partial class SpecReader
             return defaults;
         }
 
-        reader.OnlyKeys(table, "method", "step", "rtol", "atol");
+        reader.OnlyKeys(table, "method", "step", "rtol", "atol", "min_step", "max_step", "max_steps");
         var method = reader.String(table, "method", required: false, "euler", "rk4", "dopri5") switch
         {
             "euler" => IntegratorMethod.Euler,
@@ -66,6 +72,48 @@ public static partial class SpecReader
             method,
             reader.Number(table, "step", s => s > 0, "must be > 0") ?? defaults.Step,
             reader.Number(table, "rtol", r => r > 0 && r < 1, "between 0 and 1, exclusive") ?? defaults.RelativeTolerance,
-            reader.Number(table, "atol", a => a > 0, "must be > 0") ?? defaults.AbsoluteTolerance);
+            reader.Number(table, "atol", a => a > 0, "must be > 0") ?? defaults.AbsoluteTolerance,
+            reader.Number(table, "min_step", a => a > 0, "must be > 0") ?? defaults.MinStep,
+            reader.Number(table, "max_step", a => a > 0, "must be > 0") ?? defaults.MaxStep,
+            reader.Integer(table, "max_steps", 1, long.MaxValue) ?? defaults.MaxSteps);
+    }
+
+    private static SectionSettings ReadSection(ConfigReader reader, ConfigTable root, ModelSource? model)
+    {
+        var table = reader.Table(root, "section", required: false);
+        if (table is null || model is null)
+        {
+            return new SectionSettings();
+        }
+
+        reader.OnlyKeys(table, "variable", "value", "direction");
+        var usesTime = model.ForcingPeriod is not null;
+        if (model.Kind == ModelKind.Map || usesTime)
+        {
+            var why = model.Kind == ModelKind.Map ? "a map is sampled every iteration" : "a forced flow is sampled once per forcing period";
+            reader.Problem(table.Position, $"section: only autonomous flows take a Poincaré section; {why}");
+            return new SectionSettings();
+        }
+
+        var variable = 0;
+        if (reader.String(table, "variable", required: false) is { } name)
+        {
+            variable = IndexOf(model.Variables, name);
+            if (variable < 0)
+            {
+                var suggestion = Core.Expressions.NameSuggester.Closest(name, model.Variables);
+                var hint = suggestion is null ? $" (variables: {List(model.Variables)})" : $" (did you mean '{suggestion}'?)";
+                reader.Problem(table.Find("variable")!.Value.Position, $"section.variable: '{name}' is not a variable{hint}");
+                variable = 0;
+            }
+        }
+
+        var direction = reader.String(table, "direction", required: false, "up", "down", "both") switch
+        {
+            "down" => SectionDirection.Down,
+            "both" => SectionDirection.Both,
+            _ => SectionDirection.Up,
+        };
+        return new SectionSettings(variable, reader.Number(table, "value", _ => true, ""), direction);
     }
 }

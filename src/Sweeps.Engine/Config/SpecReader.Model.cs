@@ -15,10 +15,6 @@ public static partial class SpecReader
 
         reader.OnlyKeys(table, "kind", "variables", "parameters", "equations", "forcing_period");
         var kindText = reader.String(table, "kind", required: true, "map", "flow");
-        if (kindText == "flow")
-        {
-            reader.Problem(table.Find("kind")!.Value.Position, "model.kind: flows are not supported by this version yet (only \"map\")");
-        }
 
         var before = reader.Problems.Count;
         var variables = reader.Names(table, "variables", required: true) ?? [];
@@ -36,10 +32,25 @@ public static partial class SpecReader
             return null;
         }
 
-        var equations = ReadEquations(reader, table, variables, parameters, kindText == "flow");
+        if (kindText == "map" && table.Find("forcing_period") is { } mapForcing)
+        {
+            reader.Problem(mapForcing.KeyPosition, "model.forcing_period: only flows are forced (a map has no time t)");
+        }
+
+        var equations = ReadEquations(reader, table, variables, parameters, kindText == "flow", out var usesTime);
         if (kindText is null || equations is null)
         {
             return null;
+        }
+
+        if (kindText == "flow" && usesTime && table.Find("forcing_period") is null)
+        {
+            reader.Problem(table.Position, "model: the equations use t, so give forcing_period (the period of the forcing, for stroboscopic sampling)");
+        }
+
+        if (kindText == "flow" && !usesTime && forcing is not null)
+        {
+            reader.Problem(table.Find("forcing_period")!.KeyPosition, "model.forcing_period: no equation uses t, so there is nothing to force");
         }
 
         return new ModelSource(
@@ -79,8 +90,10 @@ public static partial class SpecReader
         ConfigTable model,
         List<(string Name, SourcePosition Position)> variables,
         List<(string Name, SourcePosition Position)> parameters,
-        bool allowTime)
+        bool allowTime,
+        out bool usesTime)
     {
+        usesTime = false;
         var table = reader.Table(model, "equations", required: true);
         if (table is null)
         {
@@ -109,7 +122,7 @@ public static partial class SpecReader
 
             try
             {
-                Parser.Parse(text, scope);
+                usesTime |= ExpressionQueries.Mentions(Parser.Parse(text, scope), SymbolKind.Time);
                 equations[slot] = text;
             }
             catch (ExpressionException error)

@@ -9,7 +9,7 @@ namespace Sweeps.Engine.Config;
 /// </summary>
 public static partial class SpecReader
 {
-    private static readonly string[] Sections = ["model", "initial", "parameters", "grid", "analysis", "integrator", "output"];
+    private static readonly string[] Sections = ["model", "initial", "parameters", "grid", "analysis", "integrator", "section", "output"];
 
     public static SweepSpec Load(string path)
     {
@@ -41,15 +41,16 @@ public static partial class SpecReader
         var swept = SweptNames(root);
         var initial = model is null ? null : ReadValues(reader, root, "initial", model.Variables, grid, swept, AxisTarget.Variable);
         var parameters = model is null ? null : ReadValues(reader, root, "parameters", model.Parameters, grid, swept, AxisTarget.Parameter);
-        var analysis = ReadAnalysis(reader, root);
+        var analysis = ReadAnalysis(reader, root, model?.Kind ?? ModelKind.Map);
         var integrator = ReadIntegrator(reader, root);
+        var section = ReadSection(reader, root, model);
         var (output, chunkSize) = ReadOutput(reader, root);
         if (reader.Problems.Count > 0 || model is null || grid is null || initial is null || parameters is null)
         {
             throw new ConfigException(reader.Problems);
         }
 
-        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output, chunkSize);
+        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output, chunkSize, section);
     }
 
     private static (string? Dir, long? ChunkSize) ReadOutput(ConfigReader reader, ConfigTable root)

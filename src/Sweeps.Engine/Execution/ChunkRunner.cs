@@ -36,7 +36,7 @@ public static class ChunkRunner
         var manifest = context.Run.Manifest;
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
-        var analyzer = new MapAnalyzer(context.Model, spec.Analysis);
+        var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count);
         var initial = new double[spec.Initial.Count];
         var parameters = new double[spec.Parameters.Count];
@@ -74,7 +74,7 @@ public static class ChunkRunner
         return columns;
     }
 
-    private static PointResult Analyze(MapAnalyzer analyzer, double[] initial, double[] parameters)
+    private static PointResult Analyze(IPointAnalyzer analyzer, double[] initial, double[] parameters)
     {
         try
         {

@@ -15,7 +15,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     public static CostEstimate Measure(SweepSpec spec, int samples = 12)
     {
         var model = ModelFactory.Build(spec);
-        var analyzer = new MapAnalyzer(model, spec.Analysis);
+        var analyzer = AnalyzerFactory.Create(spec, model);
         var points = spec.Grid.PointCount;
         var count = (int)Math.Min(samples, points);
         var initial = spec.Initial.ToArray();

@@ -14,6 +14,7 @@ internal sealed class ChunkColumns
         Axis = Columns(axes, capacity);
         Regime = new string[capacity];
         Period = new int[capacity];
+        PeriodTime = new double[capacity];
         Lyapunov = Columns(dimension, capacity);
         LyapunovError = Columns(dimension, capacity);
         Final = Columns(dimension, capacity);
@@ -29,6 +30,8 @@ internal sealed class ChunkColumns
     public string[] Regime { get; }
 
     public int[] Period { get; }
+
+    public double[] PeriodTime { get; }
 
     public double[][] Lyapunov { get; }
 
@@ -56,6 +59,7 @@ internal sealed class ChunkColumns
 
         Regime[row] = result.Regime.ToText();
         Period[row] = result.Period;
+        PeriodTime[row] = result.PeriodTime;
         for (var i = 0; i < n; i++)
         {
             Lyapunov[i][row] = i < result.Lyapunov.Length ? result.Lyapunov[i] : double.NaN;

@@ -5,7 +5,7 @@ namespace Sweeps.Engine.Runs;
 
 /// <summary>
 /// The columns of a part file, in order: <c>point</c>, one column per grid axis, <c>regime</c>,
-/// <c>period</c>, <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
+/// <c>period</c>, <c>period_time</c> (flows; NaN for maps), <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
 /// <c>reason</c> and <c>samples</c> (the last states, row-major, as a list). Part of the output contract.
 /// </summary>
 public sealed class PartSchema
@@ -17,6 +17,7 @@ public sealed class PartSchema
         Axes = spec.Grid.Axes.Select(a => new DataField<double>(a.Name)).ToArray();
         Regime = new DataField<string>("regime");
         Period = new DataField<int>("period");
+        PeriodTime = new DataField<double>("period_time");
         Lyapunov = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_{i}")).ToArray();
         LyapunovError = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_error_{i}")).ToArray();
         Final = spec.Model.Variables.Select(v => new DataField<double>($"final_{v}")).ToArray();
@@ -28,6 +29,7 @@ public sealed class PartSchema
                 .Concat(Axes)
                 .Append(Regime)
                 .Append(Period)
+                .Append(PeriodTime)
                 .Concat(Lyapunov)
                 .Concat(LyapunovError)
                 .Concat(Final)
@@ -37,7 +39,7 @@ public sealed class PartSchema
 
     /// <summary>Names a model may not use, because they would collide with a fixed column.</summary>
     public static bool Collides(string name) =>
-        name is "point" or "regime" or "period" or "reason" or "samples"
+        name is "point" or "regime" or "period" or "period_time" or "reason" or "samples"
         || name.StartsWith("lyapunov_", StringComparison.Ordinal)
         || name.StartsWith("final_", StringComparison.Ordinal);
 
@@ -50,6 +52,8 @@ public sealed class PartSchema
     public DataField<string> Regime { get; }
 
     public DataField<int> Period { get; }
+
+    public DataField<double> PeriodTime { get; }
 
     public IReadOnlyList<DataField<double>> Lyapunov { get; }
 

@@ -30,6 +30,7 @@ internal static class PartWriter
 
                 await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
                 await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
+                await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
                 await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
                 await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
                 await WriteAll(group, schema.Final, columns.Final, count, token);

@@ -41,6 +41,15 @@ public static class SpecFingerprint
             ["step"] = Number(spec.Integrator.Step),
             ["rtol"] = Number(spec.Integrator.RelativeTolerance),
             ["atol"] = Number(spec.Integrator.AbsoluteTolerance),
+            ["min_step"] = Number(spec.Integrator.MinStep),
+            ["max_step"] = Number(spec.Integrator.MaxStep),
+            ["max_steps"] = spec.Integrator.MaxSteps,
+        },
+        ["section"] = spec.Model.Kind == ModelKind.Map || spec.Model.ForcingPeriod is not null ? null : new JsonObject
+        {
+            ["variable"] = spec.Model.Variables[(spec.Section ?? new SectionSettings()).Variable],
+            ["value"] = (spec.Section ?? new SectionSettings()).Level is { } level ? Number(level) : "mean",
+            ["direction"] = (spec.Section ?? new SectionSettings()).Direction.ToString().ToLowerInvariant(),
         },
     };
 

@@ -1,5 +1,5 @@
-using Sweeps.Core.Integrators;
 using Sweeps.Core.Analysis;
+using Sweeps.Core.Integrators;
 using Sweeps.Core.Models;
 
 namespace Sweeps.Engine.Specs;
@@ -17,6 +17,7 @@ namespace Sweeps.Engine.Specs;
 /// <param name="Integrator">Flow integration settings.</param>
 /// <param name="OutputDirectory">[output] dir, if given.</param>
 /// <param name="ChunkSize">[output] chunk_size: points per chunk and part file, if fixed by the config.</param>
+/// <param name="Section">The Poincaré section of an autonomous flow.</param>
 public sealed record SweepSpec(
     string SourceFile,
     ModelSource Model,
@@ -26,4 +27,5 @@ public sealed record SweepSpec(
     AnalysisSettings Analysis,
     IntegratorSettings Integrator,
     string? OutputDirectory,
-    long? ChunkSize = null);
+    long? ChunkSize = null,
+    SectionSettings? Section = null);
