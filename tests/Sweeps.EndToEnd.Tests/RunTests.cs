@@ -100,6 +100,23 @@ public sealed class RunTests
         Assert.Equal("x,y", metadata["sweeps.samples_layout"]);
     }
 
+    // The Van der Pol-type example at μ = 1 has its limit cycle of period 6.6632868593 (standard value, from memory).
+    [Fact]
+    public void Run_SweepsAFlow_WithPeriodsInTime()
+    {
+        using var temp = new TempFolder();
+        var config = Path.Combine(SweepsProcess.RepoRoot, "configs", "relaxation-oscillator.toml");
+        var text = File.ReadAllText(config).Replace("mu = { from = 0.1, to = 5.0, steps = 50 }", "mu = { values = [0.5, 1.0, 2.0] }");
+        var (code, _, error) = SweepsProcess.Run(temp.Path, "run", temp.Write("oscillator.toml", text), "--out", "out");
+        Assert.True(code == 0, error);
+        var data = IndependentReader.ReadRun(Path.Combine(temp.Path, "out"));
+        var muOne = data.Rows.Single(r => (double)r[1]! == 1.0);
+        Assert.Equal("periodic", muOne[2]);
+        Assert.Equal(1, muOne[3]);
+        Assert.Equal(6.6632868593, (double)muOne[4]!, 5);
+        Assert.All(data.Rows, r => Assert.Equal("periodic", r[2]));
+    }
+
     [Fact]
     public void Run_GivesBitIdenticalResults_WithOneOrTwoWorkers()
     {

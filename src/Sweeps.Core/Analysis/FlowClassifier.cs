@@ -14,12 +14,23 @@ public static class FlowClassifier
 {
     public static Verdict Decide(FlowMeasurements m, AnalysisSettings settings)
     {
+        var exponents = m.Exponents;
         if (m.AtRest)
         {
+            // At rest on a repelling equilibrium: only an exact start there (or rounding) keeps it, so it is no attractor.
+            if (exponents.Length > 0 && exponents[0] > Math.Max(settings.ZeroBand, double.IsFinite(m.Errors[0]) ? m.Errors[0] : 0))
+            {
+                return new Verdict(Regime.Unresolved, $"the orbit sits exactly on an unstable equilibrium (λ1 = {Format(exponents[0])}); not an attractor");
+            }
+
             return new Verdict(Regime.FixedPoint);
         }
 
-        var exponents = m.Exponents;
+        if (m.Dimension == 1 && !m.Forced)
+        {
+            return new Verdict(Regime.Unresolved, "a one-dimensional flow can only settle or run away, and this orbit did neither within the measured time");
+        }
+
         var computed = exponents.Length > 0;
         var positive = 0;
         var zero = 0;
@@ -49,11 +60,6 @@ public static class FlowClassifier
             }
 
             return new Verdict(Regime.Periodic);
-        }
-
-        if (m.Dimension == 1 && !m.Forced)
-        {
-            return new Verdict(Regime.Unresolved, "a one-dimensional flow can only settle or run away, and this orbit did neither within the measured time");
         }
 
         if (!computed)

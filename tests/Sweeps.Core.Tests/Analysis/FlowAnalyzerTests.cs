@@ -1,3 +1,4 @@
+using CsCheck;
 using Sweeps.Core.Analysis;
 using Sweeps.Core.Integrators;
 using Sweeps.Core.Models;
@@ -160,5 +161,52 @@ public sealed class FlowAnalyzerTests
         var settled = Analyze(model, [1, 1, 1], [10, 10, 8.0 / 3], new AnalysisSettings(Transient: 100, Measure: 200, Tolerance: 1e-6));
         Assert.Equal(Regime.FixedPoint, settled.Regime);
         Tolerance.Close(9, settled.FinalState[2], 1e-6, "z* = ρ − 1");
+    }
+
+    // Exact: C± lose stability at ρ_H = σ(σ + β + 3)/(σ − β − 1) = 470/19 = 24.7368421 (Strogatz 1994, §9.2):
+    // the complex pair of the Jacobian at C± crosses the imaginary axis there.
+    [Theory]
+    [InlineData(24.5, FixedPointKind.StableSpiral)]
+    [InlineData(25.0, FixedPointKind.Saddle)]
+    public void Equilibria_OfLorenz_LoseStabilityAtThePublishedHopfValue(double rho, FixedPointKind expected)
+    {
+        var c = Math.Sqrt(8.0 / 3 * (rho - 1));
+        var found = new FixedPointFinder(Lorenz()).Find([[c, c, rho - 1]], [10, rho, 8.0 / 3]);
+        var point = Assert.Single(found);
+        Assert.Equal(expected, point.Kind);
+        var pair = point.Eigenvalues.Where(e => Math.Abs(e.Imaginary) > 1e-9).ToArray();
+        Assert.Equal(2, pair.Length);
+        Assert.Equal(rho > 470.0 / 19, pair[0].Real > 0);
+    }
+
+    // Exact: tr J = B − 1 − A² and det J = A² at (A, B/A), so the equilibrium is a stable focus for
+    // B < 1 + A² and an unstable one beyond, where the orbit settles on a limit cycle instead.
+    [Theory]
+    [InlineData(1.8, FixedPointKind.StableSpiral, Regime.FixedPoint)]
+    [InlineData(2.3, FixedPointKind.UnstableSpiral, Regime.Periodic)]
+    public void Brusselator_TurnsIntoALimitCycle_AtBEqualsOnePlusASquared(double b, FixedPointKind kind, Regime regime)
+    {
+        var brusselator = Flow(["x", "y"], ["a", "b"], "a - (b + 1)*x + x^2*y", "b*x - x^2*y");
+        var equilibrium = Assert.Single(new FixedPointFinder(brusselator).Find([[1.1, 1.1]], [1, b]));
+        Tolerance.Close(1, equilibrium.State[0], 1e-12, "x* = A");
+        Tolerance.Close(b, equilibrium.State[1], 1e-12, "y* = B/A");
+        Assert.Equal(kind, equilibrium.Kind);
+        var result = Analyze(brusselator, [1.2, 1.2], [1, b], new AnalysisSettings(Transient: 400, Measure: 400, Tolerance: 1e-6, ZeroBand: 0.005));
+        Assert.Equal(regime, result.Regime);
+    }
+
+    // Common practice: a one-variable autonomous flow is monotone between equilibria, so it can settle,
+    // run away or (honestly) be unresolved within the time given — never cycle or be chaotic.
+    [Fact]
+    public void Analyze_NeverCyclesOrIsChaotic_ForRandomOneVariableFlows()
+    {
+        var coefficients = Gen.Double[-2, 2].Array[4];
+        Gen.Select(coefficients, Gen.Double[-3, 3]).Sample((c, x0) =>
+        {
+            var text = FormattableString.Invariant($"{c[0]:R} + {c[1]:R}*x + {c[2]:R}*x^2 + {c[3]:R}*x^3");
+            var model = Flow(["x"], [], text.Replace("+ -", "- ", StringComparison.Ordinal));
+            var result = Analyze(model, [x0], [], new AnalysisSettings(Transient: 20, Measure: 40, Tolerance: 1e-6), new IntegratorSettings(IntegratorMethod.Dopri5, 0.01, 1e-8, 1e-10));
+            return result.Regime is Regime.FixedPoint or Regime.Divergent or Regime.Unresolved && result.Period == 0;
+        }, iter: 60, threads: 1);
     }
 }
