@@ -23,6 +23,8 @@ internal static class CliApp
         root.Subcommands.Add(ProbeCommand.Create(output));
         root.Subcommands.Add(CheckCommand.Create(output));
         root.Subcommands.Add(RunCommand.Create(cli));
+        root.Subcommands.Add(SubmitCommand.Create(cli));
+        root.Subcommands.Add(WorkerCommand.Create(cli));
         root.Subcommands.Add(StatusCommand.Create(cli));
         root.Subcommands.Add(InspectCommand.Create(cli));
 

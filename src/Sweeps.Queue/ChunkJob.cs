@@ -9,7 +9,7 @@ namespace Sweeps.Queue;
 /// Delivery is at least once, which is safe: a chunk whose part exists is skipped, and two runs of the
 /// same chunk write identical files.
 /// </summary>
-public sealed class ChunkJob(RunContexts contexts, RunProgress progress)
+public sealed class ChunkJob(RunContexts contexts, RunProgress progress, JobStorage storage)
 {
     [AutomaticRetry(Attempts = 0)]
     public async Task RunAsync(string runDirectory, long chunk, CancellationToken cancellationToken)
@@ -20,6 +20,11 @@ public sealed class ChunkJob(RunContexts contexts, RunProgress progress)
             var context = contexts.Get(runDirectory);
             await ChunkRunner.RunAsync(context, chunk, counters.AddPoints, cancellationToken);
             counters.ChunkDone();
+            if (context.Run.MissingChunks().Count == 0)
+            {
+                // The last part of a run, whoever wrote it, closes the manifest (idempotent).
+                context.Run.MarkFinished(TimeProvider.System);
+            }
         }
         catch (OperationCanceledException) when (cancellationToken.IsCancellationRequested)
         {
@@ -28,6 +33,7 @@ public sealed class ChunkJob(RunContexts contexts, RunProgress progress)
         catch (Exception error)
         {
             counters.ChunkFailed(chunk, error.Message);
+            ChunkQueue.Forget(storage, runDirectory, chunk);
             throw;
         }
     }

@@ -32,9 +32,14 @@ public sealed class EmbeddedQueueTests : IDisposable
     public async Task Jobs_WriteEveryPart_AndCountEveryPoint()
     {
         var run = CreateRun(chunkSize: 32);
-        using var host = EmbeddedQueue.Build(workers: 2);
+        using var host = QueueHost.Build(new QueueSettings(Workers: 2));
         var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
-        EmbeddedQueue.Enqueue(host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, run.MissingChunks());
+        var storage = host.Services.GetRequiredService<JobStorage>();
+        var client = host.Services.GetRequiredService<IBackgroundJobClient>();
+        Assert.Equal(10, ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+
+        // Submitting again queues nothing twice.
+        Assert.Equal(0, ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
         await host.StartAsync();
         var deadline = DateTime.UtcNow.AddMinutes(1);
         while (counters.ChunksDone + counters.ChunksFailed < 10 && DateTime.UtcNow < deadline)

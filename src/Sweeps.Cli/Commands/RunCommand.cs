@@ -104,9 +104,9 @@ internal static class RunCommand
     /// <summary>Computes the missing chunks on the embedded queue; returns an exit code if the run did not complete.</summary>
     private static async Task<int?> ComputeAsync(CliContext cli, RunDirectory run, IReadOnlyList<long> missing, long pointsToRun, int workers, CancellationToken token)
     {
-        using var host = EmbeddedQueue.Build(workers);
+        using var host = QueueHost.Build(new QueueSettings(workers));
         var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
-        EmbeddedQueue.Enqueue(host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing);
+        ChunkQueue.Submit(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing);
         await host.StartAsync(CancellationToken.None);
         bool Pending() => counters.ChunksDone + counters.ChunksFailed < missing.Count;
         await ProgressView.Create(cli.Output, cli.Interactive).ShowAsync(pointsToRun, () => counters.Points, Pending, token);

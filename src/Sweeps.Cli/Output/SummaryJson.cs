@@ -7,7 +7,7 @@ namespace Sweeps.Cli.Output;
 /// <summary>The <c>inspect --json</c> and <c>status --json</c> objects.</summary>
 internal static class SummaryJson
 {
-    public static void Write(RunDirectory run, RunSummary summary, TextWriter output, bool detailed)
+    public static void Write(RunDirectory run, RunSummary summary, TextWriter output, bool detailed, double rate = 0, Queue.QueueStatus? queue = null)
     {
         using var buffer = new MemoryStream();
         using (var json = new Utf8JsonWriter(buffer, new JsonWriterOptions { Indented = true }))
@@ -26,6 +26,49 @@ internal static class SummaryJson
             }
 
             json.WriteEndArray();
+            if (!detailed)
+            {
+                json.WriteNumber("points_per_second", rate);
+            }
+
+            if (queue is not null)
+            {
+                json.WriteStartObject("queue");
+                json.WriteStartArray("running");
+                foreach (var (chunk, server) in queue.Running)
+                {
+                    json.WriteStartObject();
+                    json.WriteNumber("chunk", chunk);
+                    json.WriteString("host", server);
+                    json.WriteEndObject();
+                }
+
+                json.WriteEndArray();
+                json.WriteNumber("queued", queue.Queued);
+                json.WriteStartArray("failed");
+                foreach (var (chunk, reason) in queue.Failed)
+                {
+                    json.WriteStartObject();
+                    json.WriteNumber("chunk", chunk);
+                    json.WriteString("reason", reason);
+                    json.WriteEndObject();
+                }
+
+                json.WriteEndArray();
+                json.WriteStartArray("hosts");
+                foreach (var (name, workers, heartbeat) in queue.Hosts)
+                {
+                    json.WriteStartObject();
+                    json.WriteString("name", name);
+                    json.WriteNumber("workers", workers);
+                    json.WriteString("heartbeat", heartbeat?.ToString("O", System.Globalization.CultureInfo.InvariantCulture));
+                    json.WriteEndObject();
+                }
+
+                json.WriteEndArray();
+                json.WriteEndObject();
+            }
+
             if (detailed)
             {
                 json.WriteString("spec_hash", run.Manifest.SpecHash);

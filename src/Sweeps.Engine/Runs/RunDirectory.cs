@@ -83,7 +83,7 @@ public sealed class RunDirectory
     /// same spec (a resume). A directory holding another spec's run, or unrelated files, is refused.
     /// </summary>
     public static (RunDirectory Run, bool Resumed) CreateOrResume(
-        string path, SweepSpec spec, string configText, IReadOnlyList<string> overrides, long chunkSize, TimeProvider clock)
+        string path, SweepSpec spec, string configText, IReadOnlyList<string> overrides, long chunkSize, TimeProvider clock, bool cleanAbandoned = true)
     {
         var specHash = SpecFingerprint.SpecHash(spec);
         if (File.Exists(Path.Combine(path, "run.json")))
@@ -97,7 +97,12 @@ public sealed class RunDirectory
                     $"holds a run of a different spec (its {changed} differ: spec {Short(existing.Manifest.SpecHash)} there, {Short(specHash)} here); choose another --out or remove it");
             }
 
-            existing.RemoveAbandonedParts();
+            if (cleanAbandoned)
+            {
+                // Only the embedded run owns its directory; with shared workers a temporary file may be in use.
+                existing.RemoveAbandonedParts();
+            }
+
             return (existing, true);
         }
 
@@ -164,7 +169,8 @@ public sealed class RunDirectory
 
     private void WriteManifest()
     {
-        var temporary = ManifestPath + ".tmp";
+        // A unique temporary name: with shared workers, several processes may close the same run.
+        var temporary = $"{ManifestPath}.tmp-{Guid.NewGuid():N}";
         File.WriteAllText(temporary, JsonSerializer.Serialize(Manifest, Json));
         File.Move(temporary, ManifestPath, overwrite: true);
     }

@@ -1,0 +1,65 @@
+using System.CommandLine;
+using Hangfire;
+using Microsoft.Extensions.DependencyInjection;
+using Sweeps.Cli.Output;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Planning;
+using Sweeps.Engine.Runs;
+using Sweeps.Engine.Specs;
+using Sweeps.Queue;
+
+namespace Sweeps.Cli.Commands;
+
+/// <summary>
+/// <c>sweeps submit CONFIG --queue CONN [--out DIR] [--set …]</c>: create the run directory (on storage
+/// the workers see at the same path) and queue its missing chunks; prints the run id. Safe to repeat.
+/// </summary>
+internal static class SubmitCommand
+{
+    public static Command Create(CliContext cli)
+    {
+        var config = new Argument<string>("CONFIG") { Description = "The sweep config (TOML)" };
+        var queue = QueueOptions.Create();
+        var outDir = new Option<string?>("--out") { Description = "Run directory, on storage every worker sees at the same path" };
+        var set = new Option<string[]>("--set") { Description = "Set a parameter or initial value that is not swept (repeatable)" };
+        var command = new Command("submit", "Queue a sweep's chunks on a shared PostgreSQL queue for 'sweeps worker' hosts");
+        command.Arguments.Add(config);
+        command.Options.Add(queue);
+        command.Options.Add(outDir);
+        command.Options.Add(set);
+        command.SetAction(async (parse, token) =>
+        {
+            var connection = QueueOptions.Require(parse, queue);
+            var path = parse.GetRequiredValue(config);
+            var overrides = parse.GetValue(set) ?? [];
+            var spec = PointOverrides.ApplyToSpec(SpecReader.Load(path), overrides);
+            var directory = parse.GetValue(outDir) ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(path));
+            long chunkSize;
+            if (File.Exists(Path.Combine(directory, "run.json")))
+            {
+                chunkSize = RunDirectory.Open(directory).Manifest.ChunkSize;
+            }
+            else
+            {
+                chunkSize = spec.ChunkSize is { } size
+                    ? size
+                    : ChunkPlan.For(spec.Grid.PointCount, CostEstimate.Measure(spec).SecondsPerPoint, Environment.ProcessorCount).ChunkSize;
+            }
+
+            var (run, _) = RunDirectory.CreateOrResume(directory, spec, File.ReadAllText(path), overrides, chunkSize, cli.Clock, cleanAbandoned: false);
+            var missing = run.MissingChunks();
+            var added = await QueueOptions.Guard(connection, () =>
+            {
+                using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
+                var storage = host.Services.GetRequiredService<JobStorage>();
+                return Task.FromResult(ChunkQueue.Submit(storage, host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing));
+            });
+            cli.Output.WriteLine(run.FullPath);
+            SummaryText.Line(cli.Error, "run", $"{run.FullPath} (spec {run.Manifest.SpecHash[..12]})");
+            SummaryText.Line(cli.Error, "chunks", $"{run.Manifest.ChunkCount:N0}: {run.Manifest.ChunkCount - missing.Count:N0} done, {added:N0} queued now, {missing.Count - added:N0} already queued");
+            SummaryText.Line(cli.Error, "queue", ConnectionStrings.Mask(connection));
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+}

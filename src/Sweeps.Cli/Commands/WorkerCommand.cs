@@ -1,0 +1,64 @@
+using System.CommandLine;
+using Microsoft.Extensions.Hosting;
+using Sweeps.Engine.Config;
+using Sweeps.Queue;
+
+namespace Sweeps.Cli.Commands;
+
+/// <summary>
+/// <c>sweeps worker --queue CONN [--workers N] [--invisibility SECONDS]</c>: serve chunk jobs of any run
+/// until stopped. On SIGTERM or Ctrl-C the current chunks are cancelled (they leave no part) and go back
+/// to the queue; a worker that dies instead stops heart-beating and its chunks are re-run by another
+/// worker once the invisibility timeout has passed.
+/// </summary>
+internal static class WorkerCommand
+{
+    public static Command Create(CliContext cli)
+    {
+        var queue = QueueOptions.Create();
+        var workers = new Option<int?>("--workers") { Description = "Worker threads (default: the number of cores)" };
+        var invisibility = new Option<double?>("--invisibility")
+        {
+            Description = $"Seconds before a chunk of a worker that died is given to another (default {QueueSettings.DefaultInvisibility.TotalSeconds})",
+        };
+        var command = new Command("worker", "Serve chunk jobs from a shared PostgreSQL queue until stopped");
+        command.Options.Add(queue);
+        command.Options.Add(workers);
+        command.Options.Add(invisibility);
+        command.SetAction(async (parse, token) =>
+        {
+            var connection = QueueOptions.Require(parse, queue);
+            var count = parse.GetValue(workers) ?? Environment.ProcessorCount;
+            if (count is < 1 or > 1024)
+            {
+                throw ConfigException.Single("--workers", $"{count} is out of range (1 to 1024)");
+            }
+
+            var seconds = parse.GetValue(invisibility) ?? QueueSettings.DefaultInvisibility.TotalSeconds;
+            if (!(seconds is >= 1 and <= 86400))
+            {
+                throw ConfigException.Single("--invisibility", $"{seconds} s is out of range (1 to 86400)");
+            }
+
+            return await QueueOptions.Guard(connection, async () =>
+            {
+                using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)));
+                await host.StartAsync(CancellationToken.None);
+                cli.Output.WriteLine($"worker {Environment.MachineName}:{Environment.ProcessId} serving {ConnectionStrings.Mask(connection)} with {count} thread{(count == 1 ? "" : "s")}");
+                cli.Output.Flush();
+                try
+                {
+                    await Task.Delay(Timeout.Infinite, token);
+                }
+                catch (OperationCanceledException)
+                {
+                }
+
+                await host.StopAsync(CancellationToken.None);
+                cli.Output.WriteLine("worker stopped");
+                return ExitCodes.Success;
+            });
+        });
+        return command;
+    }
+}

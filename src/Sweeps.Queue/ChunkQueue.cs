@@ -1,0 +1,49 @@
+using Hangfire;
+using Hangfire.States;
+using Hangfire.Storage;
+
+namespace Sweeps.Queue;
+
+/// <summary>
+/// Puts the missing chunks of a run on the queue, at most once each: under a distributed lock, the
+/// chunks already queued for the run are kept in a Hangfire set, and only chunks neither done nor
+/// queued are enqueued. Submitting the same run again, from any host, is therefore safe.
+/// </summary>
+public static class ChunkQueue
+{
+    public static string SetKey(string runDirectory) => $"sweeps:queued:{runDirectory}";
+
+    /// <summary>Enqueues the chunks not yet queued; returns how many were added.</summary>
+    public static int Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing)
+    {
+        using var connection = storage.GetConnection();
+        using var _ = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
+        var queued = connection.GetAllItemsFromSet(SetKey(runDirectory));
+        var added = 0;
+        foreach (var chunk in missing)
+        {
+            var item = chunk.ToString(System.Globalization.CultureInfo.InvariantCulture);
+            if (queued.Contains(item))
+            {
+                continue;
+            }
+
+            client.Create<ChunkJob>(job => job.RunAsync(runDirectory, chunk, CancellationToken.None), new EnqueuedState());
+            using var transaction = connection.CreateWriteTransaction();
+            transaction.AddToSet(SetKey(runDirectory), item);
+            transaction.Commit();
+            added++;
+        }
+
+        return added;
+    }
+
+    /// <summary>Forgets that a chunk is queued (after it failed for good), so that a new submit queues it again.</summary>
+    public static void Forget(JobStorage storage, string runDirectory, long chunk)
+    {
+        using var connection = storage.GetConnection();
+        using var transaction = connection.CreateWriteTransaction();
+        transaction.RemoveFromSet(SetKey(runDirectory), chunk.ToString(System.Globalization.CultureInfo.InvariantCulture));
+        transaction.Commit();
+    }
+}

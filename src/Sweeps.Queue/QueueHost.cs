@@ -1,0 +1,73 @@
+using Hangfire;
+using Hangfire.InMemory;
+using Hangfire.PostgreSql;
+using Microsoft.Extensions.DependencyInjection;
+using Microsoft.Extensions.Hosting;
+using Microsoft.Extensions.Logging;
+
+namespace Sweeps.Queue;
+
+/// <summary>
+/// The generic host that serves chunk jobs: Hangfire on in-memory storage (embedded default) or on
+/// PostgreSQL (many hosts), with one worker thread per core unless told otherwise. Everything goes
+/// through DI; there is no static storage.
+/// </summary>
+public static class QueueHost
+{
+    public static IHost Build(QueueSettings settings, bool serve = true)
+    {
+        var builder = Host.CreateApplicationBuilder();
+        builder.Logging.ClearProviders();
+        builder.Services.Configure<HostOptions>(o => o.ShutdownTimeout = TimeSpan.FromSeconds(30));
+        builder.Services.AddSingleton<RunContexts>();
+        builder.Services.AddSingleton<RunProgress>();
+        builder.Services.AddSingleton(settings);
+        builder.Services.AddHangfire(configuration =>
+        {
+            configuration
+                .SetDataCompatibilityLevel(CompatibilityLevel.Version_180)
+                .UseSimpleAssemblyNameTypeSerializer()
+                .UseRecommendedSerializerSettings()
+                .UseFilter(new AutomaticRetryAttribute { Attempts = 0 });
+            if (settings.Connection is { } connection)
+            {
+                configuration.UsePostgreSqlStorage(
+                    options => options.UseNpgsqlConnection(connection),
+                    new PostgreSqlStorageOptions
+                    {
+                        SchemaName = "sweeps",
+                        PrepareSchemaIfNecessary = true,
+
+                        // Without the sliding timeout a chunk running longer than the invisibility
+                        // timeout is started again while the first run is still going.
+                        UseSlidingInvisibilityTimeout = true,
+                        InvisibilityTimeout = settings.Invisibility ?? QueueSettings.DefaultInvisibility,
+                        QueuePollInterval = TimeSpan.FromSeconds(1),
+                        EnableLongPolling = true,
+                        DistributedLockTimeout = TimeSpan.FromSeconds(30),
+                    });
+            }
+            else
+            {
+                configuration.UseInMemoryStorage(new InMemoryStorageOptions());
+            }
+        });
+        if (serve)
+        {
+            builder.Services.AddHangfireServer(options =>
+            {
+                options.WorkerCount = settings.Workers;
+                options.ServerName = $"{Environment.MachineName}:{Environment.ProcessId}";
+
+                // A running chunk sees cancellation within a few hundred points; give it time to stop.
+                options.ShutdownTimeout = TimeSpan.FromSeconds(20);
+                options.StopTimeout = TimeSpan.FromMilliseconds(500);
+                options.HeartbeatInterval = TimeSpan.FromSeconds(5);
+                options.ServerTimeout = TimeSpan.FromSeconds(30);
+                options.ServerCheckInterval = TimeSpan.FromSeconds(15);
+            });
+        }
+
+        return builder.Build();
+    }
+}

@@ -1,0 +1,186 @@
+using System.Diagnostics;
+
+namespace Sweeps.EndToEnd.Tests;
+
+/// <summary>
+/// Sweeps on a real PostgreSQL queue with real worker processes (PostgreSQL tests: they need the
+/// server that .ci/run starts, or start a throwaway one themselves).
+/// </summary>
+[Collection("postgres")]
+public sealed class DistributedTests(PostgresFixture postgres)
+{
+    // 24 000 logistic-type points in 60 chunks of 400: several seconds of work for three workers.
+    private const string Config = """
+        [model]
+        kind = "map"
+        variables = ["x"]
+        parameters = ["r"]
+        [model.equations]
+        x = "r*x*(1 - x)"
+        [initial]
+        x = 0.3
+        [grid]
+        r = { from = 2.5, to = 4.0, steps = 24000 }
+        [analysis]
+        transient = 3000
+        measure = 3000
+        lyapunov = "largest"
+        [output]
+        chunk_size = 400
+        """;
+
+    [SkippableFact]
+    public void PostgreSql_ThreeWorkersOneKilled_CompletesBitIdenticalToEmbedded()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var workers = Enumerable.Range(0, 3).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        try
+        {
+            var parts = Path.Combine(temp.Path, "shared", "parts");
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length >= 6, TimeSpan.FromMinutes(2));
+
+            // SIGKILL, mid-chunk: the worker is always inside a chunk while there is work.
+            workers[0].Kill();
+            workers[0].WaitForExit();
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3));
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+
+        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
+        Assert.Equal(24000, shared.Rows.Count);
+        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "embedded").ExitCode);
+        Assert.Equal(IndependentReader.ReadRun(Path.Combine(temp.Path, "embedded")).Hash(), shared.Hash());
+        Assert.Contains("\"state\": \"finished\"", File.ReadAllText(Path.Combine(temp.Path, "shared", "run.json")));
+    }
+
+    [SkippableFact]
+    public void PostgreSql_TwoRunsSubmittedAtOnce_BothComplete()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var first = temp.Write("first.toml", Config);
+        var second = temp.Write("second.toml", Config.Replace("x = 0.3", "x = 0.6", StringComparison.Ordinal));
+        var submits = new[] { (first, "one"), (second, "two") }
+            .Select(s => SweepsProcess.Start(temp.Path, "submit", s.Item1, "--queue", queue, "--out", s.Item2))
+            .ToList();
+        foreach (var submit in submits)
+        {
+            submit.WaitForExit();
+            Assert.Equal(0, submit.ExitCode);
+        }
+
+        // Submitting again while queued adds nothing.
+        var again = SweepsProcess.Run(temp.Path, "submit", first, "--queue", queue, "--out", "one");
+        Assert.Contains("0 queued now, 60 already queued", again.Error);
+
+        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        try
+        {
+            WaitFor(
+                () => Directory.GetFiles(Path.Combine(temp.Path, "one", "parts"), "*.parquet").Length == 60
+                    && Directory.GetFiles(Path.Combine(temp.Path, "two", "parts"), "*.parquet").Length == 60,
+                TimeSpan.FromMinutes(3));
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+
+        foreach (var name in new[] { "one", "two" })
+        {
+            var data = IndependentReader.ReadRun(Path.Combine(temp.Path, name));
+            Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), data.Rows.Select(r => (long)r[0]!).Order());
+        }
+
+        Assert.NotEqual(
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "one")).Hash(),
+            IndependentReader.ReadRun(Path.Combine(temp.Path, "two")).Hash());
+    }
+
+    [SkippableFact]
+    public void PostgreSql_DatabaseOutageMidSweep_LosesAndDuplicatesNothing()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        var parts = Path.Combine(temp.Path, "shared", "parts");
+        try
+        {
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length >= 4, TimeSpan.FromMinutes(2));
+            postgres.Outage(TimeSpan.FromSeconds(3));
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3));
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+
+        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
+        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "embedded").ExitCode);
+        Assert.Equal(IndependentReader.ReadRun(Path.Combine(temp.Path, "embedded")).Hash(), shared.Hash());
+    }
+
+    [SkippableFact]
+    public void Submit_NeverPrintsThePassword()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var config = temp.Write("stock.toml", Config);
+        var withPassword = postgres.NewDatabase() + ";Password=hunter2-secret";
+        var (code, output, error) = SweepsProcess.Run(temp.Path, "submit", config, "--queue", withPassword, "--out", "shared");
+        Assert.Equal(0, code);
+        Assert.DoesNotContain("hunter2-secret", output + error);
+        Assert.Contains("Password=***", error);
+        Assert.DoesNotContain("hunter2-secret", File.ReadAllText(Path.Combine(temp.Path, "shared", "run.json")));
+
+        var unreachable = SweepsProcess.Run(temp.Path, "submit", config, "--queue", "Host=127.0.0.1;Port=1;Username=x;Password=hunter2-secret;Timeout=2", "--out", "other");
+        Assert.Equal(1, unreachable.ExitCode);
+        Assert.DoesNotContain("hunter2-secret", unreachable.Output + unreachable.Error);
+        Assert.Contains("cannot use the queue at", unreachable.Error);
+    }
+
+    private static Process StartWorker(string folder, string queue) =>
+        SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "5");
+
+    private static void StopAll(List<Process> workers)
+    {
+        foreach (var worker in workers.Where(w => !w.HasExited))
+        {
+            using var term = Process.Start("kill", ["-TERM", worker.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)]);
+            term.WaitForExit();
+        }
+
+        foreach (var worker in workers)
+        {
+            if (!worker.WaitForExit(TimeSpan.FromSeconds(40)))
+            {
+                worker.Kill();
+            }
+
+            worker.Dispose();
+        }
+    }
+
+    private static void WaitFor(Func<bool> condition, TimeSpan timeout)
+    {
+        var clock = Stopwatch.StartNew();
+        while (!condition())
+        {
+            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout}");
+            Thread.Sleep(50);
+        }
+    }
+}
