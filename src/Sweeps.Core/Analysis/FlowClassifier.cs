@@ -34,10 +34,19 @@ public static class FlowClassifier
         var computed = exponents.Length > 0;
         var positive = 0;
         var zero = 0;
+
+        // A bounded orbit of an autonomous flow that is not at rest has one exponent exactly zero: the
+        // direction along the flow (f itself solves the variational equation). With the full spectrum,
+        // the estimate nearest zero is that direction, whatever finite-time noise says.
+        var along = !m.Forced && exponents.Length == m.Dimension ? NearestZero(exponents) : -1;
         for (var i = 0; i < exponents.Length; i++)
         {
             var band = Math.Max(settings.ZeroBand, double.IsFinite(m.Errors[i]) ? m.Errors[i] : 0);
-            if (exponents[i] > band)
+            if (i == along)
+            {
+                zero++;
+            }
+            else if (exponents[i] > band)
             {
                 positive++;
             }
@@ -89,6 +98,20 @@ public static class FlowClassifier
         }
 
         return new Verdict(Regime.Unresolved, $"no period up to {settings.MaxPeriod} {(m.Forced ? "forcing periods" : "section returns")}: a longer cycle or a transient too short");
+    }
+
+    private static int NearestZero(double[] exponents)
+    {
+        var best = 0;
+        for (var i = 1; i < exponents.Length; i++)
+        {
+            if (Math.Abs(exponents[i]) < Math.Abs(exponents[best]))
+            {
+                best = i;
+            }
+        }
+
+        return best;
     }
 
     private static string Format(double value) => value.ToString("g4", CultureInfo.InvariantCulture);
