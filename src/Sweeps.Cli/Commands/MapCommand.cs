@@ -1,0 +1,79 @@
+using System.CommandLine;
+using System.Globalization;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Runs;
+using Sweeps.Maps;
+
+namespace Sweeps.Cli.Commands;
+
+/// <summary><c>sweeps map RUN [--color regime|period|lyapunov] [-o FILE.png] [--slice NAME=VALUE]…</c>: draw a run.</summary>
+internal static class MapCommand
+{
+    public static Command Create(CliContext cli)
+    {
+        var runArgument = new Argument<string>("RUN") { Description = "A run directory" };
+        var color = new Option<string>("--color") { Description = "What the colours show: regime, period or lyapunov", DefaultValueFactory = _ => "regime" };
+        color.AcceptOnlyFromAmong("regime", "period", "lyapunov");
+        var output = new Option<string?>("-o", "--output") { Description = "PNG file to write (default: RUN/map-<color>.png)" };
+        var slice = new Option<string[]>("--slice") { Description = "Fix an axis beyond the two drawn, e.g. --slice b=0.3 (repeatable)" };
+        var width = new Option<int>("--width") { Description = "Image width in pixels", DefaultValueFactory = _ => 1000 };
+        var height = new Option<int>("--height") { Description = "Image height in pixels", DefaultValueFactory = _ => 700 };
+        var command = new Command("map", "Draw a regime map (two axes) or a bifurcation diagram (one axis) from a run directory");
+        command.Arguments.Add(runArgument);
+        command.Options.Add(color);
+        command.Options.Add(output);
+        command.Options.Add(slice);
+        command.Options.Add(width);
+        command.Options.Add(height);
+        command.SetAction(async (parse, token) =>
+        {
+            var run = RunDirectory.Open(parse.GetRequiredValue(runArgument));
+            var mode = parse.GetValue(color) switch
+            {
+                "period" => ColorMode.Period,
+                "lyapunov" => ColorMode.Lyapunov,
+                _ => ColorMode.Regime,
+            };
+            var (w, h) = (parse.GetValue(width), parse.GetValue(height));
+            if (w is < 200 or > 8000 || h is < 150 or > 8000)
+            {
+                throw ConfigException.Single("--width/--height", $"{w}×{h} is out of range (200×150 to 8000×8000)");
+            }
+
+            var request = new MapRequest(mode, ParseSlices(parse.GetValue(slice) ?? []), w, h);
+            var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
+            var table = await RunTable.ReadAsync(run, samples: true, token);
+            byte[] png;
+            try
+            {
+                png = MapRenderer.Render(run, table, request, Path.GetFileName(run.FullPath));
+            }
+            catch (ArgumentException error)
+            {
+                throw ConfigException.Single(run.FullPath, error.Message);
+            }
+
+            await File.WriteAllBytesAsync(path, png, token);
+            cli.Output.WriteLine(path);
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+
+    private static Dictionary<string, double> ParseSlices(IEnumerable<string> slices)
+    {
+        var result = new Dictionary<string, double>(StringComparer.Ordinal);
+        foreach (var slice in slices)
+        {
+            var parts = slice.Split('=', 2);
+            if (parts.Length != 2 || !double.TryParse(parts[1], NumberStyles.Float, CultureInfo.InvariantCulture, out var value))
+            {
+                throw ConfigException.Single($"--slice {slice}", "expected NAME=VALUE");
+            }
+
+            result[parts[0].Trim()] = value;
+        }
+
+        return result;
+    }
+}

@@ -1,0 +1,146 @@
+using Parquet;
+using Parquet.Schema;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// The columns of a finished (or partial) run that maps and diffs need, read from its part files with
+/// Parquet.Net and ordered by point index: axis values, regime, period, the largest exponent and,
+/// when asked, the attractor samples of the first variable.
+/// </summary>
+public sealed class RunTable
+{
+    private RunTable(long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples)
+    {
+        Point = point;
+        Axes = axes;
+        Regime = regime;
+        Period = period;
+        Lyapunov = lyapunov;
+        Samples = samples;
+    }
+
+    public int Count => Point.Length;
+
+    public long[] Point { get; }
+
+    /// <summary>Axis values per axis, per row.</summary>
+    public double[][] Axes { get; }
+
+    public string[] Regime { get; }
+
+    public int[] Period { get; }
+
+    /// <summary>lyapunov_1 per row (NaN when not computed).</summary>
+    public double[] Lyapunov { get; }
+
+    /// <summary>Per row, the samples of the first variable (null unless requested).</summary>
+    public double[][]? Samples { get; }
+
+    public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, CancellationToken token = default)
+    {
+        var axisNames = SpecFingerprintAxes(run);
+        var points = new List<long>();
+        var axes = axisNames.Select(_ => new List<double>()).ToArray();
+        var regimes = new List<string>();
+        var periods = new List<int>();
+        var lyapunov = new List<double>();
+        var sampleRows = samples ? new List<double[]>() : null;
+        var dimension = run.LoadSpec().Model.Variables.Count;
+        foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
+        {
+            await using var reader = await ParquetReader.CreateAsync(part, null, token);
+            var fields = reader.Schema.DataFields;
+            DataField Field(string name) => fields.First(f => f.Name == name);
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var group = reader.OpenRowGroupReader(g);
+                var rows = (int)group.RowCount;
+                points.AddRange(await Read<long>(group, Field("point"), rows, token));
+                for (var a = 0; a < axisNames.Count; a++)
+                {
+                    axes[a].AddRange(await Read<double>(group, Field(axisNames[a]), rows, token));
+                }
+
+                var regime = new string[rows];
+                await group.ReadAsync(Field("regime"), regime, null, token);
+                regimes.AddRange(regime);
+                periods.AddRange(await Read<int>(group, Field("period"), rows, token));
+                lyapunov.AddRange(await Read<double>(group, Field("lyapunov_1"), rows, token));
+                if (sampleRows is not null)
+                {
+                    sampleRows.AddRange(await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("samples", StringComparison.Ordinal)), dimension, token));
+                }
+            }
+        }
+
+        var order = Enumerable.Range(0, points.Count).OrderBy(i => points[i]).ToArray();
+        T[] Sorted<T>(List<T> list) => order.Select(i => list[i]).ToArray();
+        return new RunTable(
+            Sorted(points),
+            axes.Select(Sorted).ToArray(),
+            Sorted(regimes),
+            Sorted(periods),
+            Sorted(lyapunov),
+            sampleRows is null ? null : Sorted(sampleRows));
+    }
+
+    private static IReadOnlyList<string> SpecFingerprintAxes(RunDirectory run) =>
+        run.Manifest.Spec["grid"]!.AsArray().Select(a => a!["name"]!.GetValue<string>()).ToArray();
+
+    private static async Task<T[]> Read<T>(ParquetRowGroupReader group, DataField field, int rows, CancellationToken token)
+        where T : struct
+    {
+        var values = new T[rows];
+        await group.ReadAsync<T>(field, values, null, token);
+        return values;
+    }
+
+    /// <summary>Rebuilds the list rows from the column's levels: repetition 0 starts a row, definition 2 is a value, 1 an empty list.</summary>
+    private static async Task<List<double[]>> ReadSamples(ParquetRowGroupReader group, DataField field, int dimension, CancellationToken token)
+    {
+        // The chunk's value count counts level entries (values plus empty lists).
+        var count = (int)group.GetMetadata(field)!.MetaData!.NumValues;
+        var valueBuffer = new double[count];
+        var definitionBuffer = new int[count];
+        var repetitionBuffer = new int[count];
+        await group.ReadRawAsync<double>(field, valueBuffer, definitionBuffer, repetitionBuffer, token);
+        var values = valueBuffer.AsSpan();
+        var definitions = definitionBuffer.AsSpan();
+        var repetitions = repetitionBuffer.AsSpan();
+        var rows = new List<double[]>();
+        var current = new List<double>();
+        var next = 0;
+        for (var i = 0; i < definitions.Length; i++)
+        {
+            if (repetitions[i] == 0 && i > 0)
+            {
+                rows.Add(FirstVariable(current, dimension));
+                current.Clear();
+            }
+
+            if (definitions[i] == 2)
+            {
+                current.Add(values[next++]);
+            }
+        }
+
+        if (definitions.Length > 0)
+        {
+            rows.Add(FirstVariable(current, dimension));
+        }
+
+        return rows;
+    }
+
+    private static double[] FirstVariable(List<double> states, int dimension)
+    {
+        var result = new double[states.Count / dimension];
+        for (var i = 0; i < result.Length; i++)
+        {
+            result[i] = states[i * dimension];
+        }
+
+        return result;
+    }
+}

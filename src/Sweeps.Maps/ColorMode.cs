@@ -1,0 +1,8 @@
+namespace Sweeps.Maps;
+
+public enum ColorMode
+{
+    Regime,
+    Period,
+    Lyapunov,
+}

@@ -1,0 +1,223 @@
+using ScottPlot;
+using SkiaSharp;
+using Sweeps.Engine.Runs;
+using Sweeps.Engine.Specs;
+
+namespace Sweeps.Maps;
+
+/// <summary>
+/// Draws a run from its directory alone (no re-computation): a regime map, one cell per grid point,
+/// for two free axes; a bifurcation diagram — the density of attractor samples over the parameter,
+/// with the class as a strip beneath — for one. Returns PNG bytes.
+/// </summary>
+public static class MapRenderer
+{
+    private const int DensityRows = 500;
+
+    public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title) =>
+        Build(run, table, request, title).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
+
+    /// <summary>The plot, before rendering (tests render it and ask where data coordinates land in pixels).</summary>
+    internal static Plot Build(RunDirectory run, RunTable table, MapRequest request, string title)
+    {
+        FontSetup.EnsureRegistered();
+        var grid = run.LoadSpec().Grid;
+        var plane = MapPlane.Select(grid, table, request.Slices);
+        var plot = new Plot();
+        plot.FigureBackground.Color = Colors.White;
+        var subtitle = plane.Description.Length > 0 ? $" ({plane.Description})" : "";
+        if (plane.Free.Count == 2)
+        {
+            DrawPlane(plot, table, plane, request.Color);
+            plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
+        }
+        else
+        {
+            DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0]);
+            plot.Title($"{title}: attractor samples{subtitle}");
+        }
+
+        return plot;
+    }
+
+    /// <summary>Colours of categorical cells, for maps and for the strip of a bifurcation diagram.</summary>
+    internal static Color CellColor(RunTable table, int row, ColorMode mode) => mode switch
+    {
+        ColorMode.Period => Palette.ForPeriod(table.Period[row]),
+        _ => Palette.ForRegime(table.Regime[row]),
+    };
+
+    private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode)
+    {
+        var (x, y) = (new AxisScale(plane.Free[0]), new AxisScale(plane.Free[1]));
+        var (nx, ny) = ((int)plane.Free[0].Count, (int)plane.Free[1].Count);
+        var (x0, x1) = x.Range();
+        var (y0, y1) = y.Range();
+        if (mode == ColorMode.Lyapunov)
+        {
+            var values = new double[ny, nx];
+            for (var i = 0; i < ny; i++)
+            {
+                for (var j = 0; j < nx; j++)
+                {
+                    values[i, j] = double.NaN;
+                }
+            }
+
+            for (var k = 0; k < plane.Rows.Count; k++)
+            {
+                var cell = plane.Cells[k];
+                values[ny - 1 - cell[1], cell[0]] = Clip(table.Lyapunov[plane.Rows[k]]);
+            }
+
+            var limit = Limit(table, plane);
+            var heatmap = plot.Add.Heatmap(values);
+            heatmap.Colormap = Palette.Exponents;
+            heatmap.ManualRange = new ScottPlot.Range(-limit, limit);
+            heatmap.Extent = new CoordinateRect(x0, x1, y0, y1);
+            heatmap.Smooth = false;
+            heatmap.NaNCellColor = Palette.NoPeriod;
+            var bar = plot.Add.ColorBar(heatmap, Edge.Right);
+            bar.Label = "largest Lyapunov exponent";
+        }
+        else
+        {
+            using var bitmap = new SKBitmap(nx, ny);
+            bitmap.Erase(ToSkia(Palette.Unknown));
+            for (var k = 0; k < plane.Rows.Count; k++)
+            {
+                var cell = plane.Cells[k];
+                bitmap.SetPixel((int)cell[0], ny - 1 - (int)cell[1], ToSkia(CellColor(table, plane.Rows[k], mode)));
+            }
+
+            var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
+            image.AntiAlias = false;
+            AddLegend(plot, table, plane.Rows, mode);
+        }
+
+        plot.Axes.SetLimits(x0, x1, y0, y1);
+        Label(plot, x, y.Label);
+        ApplyTicks(plot.Axes.Left, y);
+    }
+
+    private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable)
+    {
+        var x = new AxisScale(plane.Free[0]);
+        var nx = (int)plane.Free[0].Count;
+        var (x0, x1) = x.Range();
+        var samples = table.Samples ?? throw new InvalidOperationException("samples were not read");
+        var finite = plane.Rows.SelectMany(r => samples[r]).Where(double.IsFinite).ToArray();
+        var (low, high) = finite.Length == 0 ? (-1.0, 1.0) : (finite.Min(), finite.Max());
+        if (high - low < 1e-12)
+        {
+            (low, high) = (low - 0.5, high + 0.5);
+        }
+
+        var span = high - low;
+        (low, high) = (low - (0.03 * span), high + (0.03 * span));
+
+        // Density, not overplotted dots: count samples per cell, shade by log(1 + count).
+        var columns = Math.Min(nx, 1200);
+        var counts = new int[DensityRows, columns];
+        var most = 1;
+        for (var k = 0; k < plane.Rows.Count; k++)
+        {
+            var column = (int)(plane.Cells[k][0] * columns / nx);
+            foreach (var value in samples[plane.Rows[k]])
+            {
+                if (double.IsFinite(value))
+                {
+                    var rowIndex = Math.Clamp((int)((high - value) / (high - low) * DensityRows), 0, DensityRows - 1);
+                    most = Math.Max(most, ++counts[rowIndex, column]);
+                }
+            }
+        }
+
+        using var density = new SKBitmap(columns, DensityRows);
+        for (var r = 0; r < DensityRows; r++)
+        {
+            for (var c = 0; c < columns; c++)
+            {
+                var shade = counts[r, c] == 0 ? 0 : 0.25 + (0.75 * Math.Log(1 + counts[r, c]) / Math.Log(1 + most));
+                var level = (byte)(255 - (int)(shade * 235));
+                density.SetPixel(c, r, new SKColor(level, level, (byte)Math.Min(255, level + 12)));
+            }
+        }
+
+        var densityImage = plot.Add.ImageRect(new Image(density), new CoordinateRect(x0, x1, low, high));
+        densityImage.AntiAlias = false;
+
+        // The class strip beneath the diagram.
+        var stripHigh = low - (0.02 * (high - low));
+        var stripLow = low - (0.08 * (high - low));
+        using var strip = new SKBitmap(nx, 1);
+        strip.Erase(ToSkia(Palette.Unknown));
+        for (var k = 0; k < plane.Rows.Count; k++)
+        {
+            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], mode == ColorMode.Period ? ColorMode.Period : ColorMode.Regime)));
+        }
+
+        var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, stripLow, stripHigh));
+        stripImage.AntiAlias = false;
+        AddLegend(plot, table, plane.Rows, mode == ColorMode.Period ? ColorMode.Period : ColorMode.Regime);
+        plot.Axes.SetLimits(x0, x1, stripLow, high);
+        Label(plot, x, $"{variable} (samples; strip: {(mode == ColorMode.Period ? "period" : "regime")})");
+    }
+
+    private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode)
+    {
+        var items = mode == ColorMode.Period
+            ? rows.Select(r => Math.Min(table.Period[r], Palette.PeriodColors.Length + 1)).Distinct().Order()
+                .Select(p => (p == 0 ? "none" : p > Palette.PeriodColors.Length ? $"> {Palette.PeriodColors.Length}" : $"period {p}", Palette.ForPeriod(p)))
+            : Engine.Runs.RegimeOrder.Sort(rows.Select(r => table.Regime[r]).Distinct())
+                .Select(regime => (regime, Palette.ForRegime(regime)));
+        foreach (var (label, color) in items)
+        {
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = label, FillColor = color, LineWidth = 0, MarkerSize = 0 });
+        }
+
+        plot.ShowLegend(Edge.Right);
+        plot.Legend.FontSize = 13;
+    }
+
+    private static void Label(Plot plot, AxisScale x, string y)
+    {
+        plot.XLabel(x.Label);
+        plot.YLabel(y);
+        plot.Axes.Bottom.Label.FontSize = 15;
+        plot.Axes.Left.Label.FontSize = 15;
+        plot.Axes.Title.Label.FontSize = 16;
+        ApplyTicks(plot.Axes.Bottom, x);
+    }
+
+    private static void ApplyTicks(ScottPlot.IAxis axis, AxisScale scale)
+    {
+        if (scale.ManualTicks() is { } ticks)
+        {
+            axis.TickGenerator = new ScottPlot.TickGenerators.NumericManual(ticks.Positions, ticks.Labels);
+        }
+
+        axis.TickLabelStyle.FontSize = 13;
+    }
+
+    /// <summary>
+    /// The colour scale's half-range: the 95th percentile of |λ1| on the plane, so that a few superstable
+    /// points (λ → −∞) do not wash every other cell out to white; beyond it colours saturate.
+    /// </summary>
+    private static double Limit(RunTable table, MapPlane plane)
+    {
+        var finite = plane.Rows.Select(r => table.Lyapunov[r]).Where(double.IsFinite).Select(Math.Abs).Order().ToArray();
+        return finite.Length == 0 ? 1 : Math.Max(1e-6, finite[(int)(0.95 * (finite.Length - 1))]);
+    }
+
+    private static double Clip(double value) => double.IsNegativeInfinity(value) ? -1e300 : value;
+
+    private static string Describe(ColorMode mode) => mode switch
+    {
+        ColorMode.Period => "period",
+        ColorMode.Lyapunov => "largest Lyapunov exponent",
+        _ => "regime",
+    };
+
+    internal static SKColor ToSkia(Color color) => new(color.R, color.G, color.B, color.A);
+}

@@ -1,0 +1,108 @@
+using ScottPlot;
+using SkiaSharp;
+using Sweeps.Engine.Runs;
+
+namespace Sweeps.Maps.Tests;
+
+/// <summary>
+/// Maps drawn from real runs: the PNG decodes, has the asked size, and where the run says a band is,
+/// the picture has that band's colour. The logistic family's 2-cycle lives for 3 < r < 1 + √6 and its
+/// fixed point for 1 < r < 3 (exact: f'(x*) = 2 − r, (f²)' = 4 + 2r − r²).
+/// </summary>
+public sealed class MapRendererTests : IDisposable
+{
+    private readonly string folder = Path.Combine(Path.GetTempPath(), "sweeps-maps-" + Guid.NewGuid().ToString("N")[..10]);
+
+    [Fact]
+    public async Task RegimeMap_ColoursThePeriodTwoBand_WhereTheRunHasIt()
+    {
+        var run = await TestRuns.CreateAsync(folder, TestRuns.Logistic("r = { from = 2.6, to = 3.6, steps = 101 }\nx = { from = 0.2, to = 0.8, steps = 7 }"));
+        var table = await RunTable.ReadAsync(run, samples: false);
+        var request = new MapRequest(ColorMode.Period, new Dictionary<string, double>(), 800, 500);
+        var plot = MapRenderer.Build(run, table, request, "logistic");
+        using var bitmap = Decode(plot.GetImageBytes(800, 500, ImageFormat.Png));
+        Assert.Equal(800, bitmap.Width);
+        Assert.Equal(500, bitmap.Height);
+        AssertColor(bitmap, plot.GetPixel(new Coordinates(3.2, 0.5)), Palette.ForPeriod(2));
+        AssertColor(bitmap, plot.GetPixel(new Coordinates(2.8, 0.35)), Palette.ForPeriod(1));
+        AssertColor(bitmap, plot.GetPixel(new Coordinates(3.5, 0.65)), Palette.ForPeriod(4));
+    }
+
+    [Fact]
+    public async Task RegimeMap_ShowsRegimesAndExponents_AsAskedFor()
+    {
+        var run = await TestRuns.CreateAsync(folder, TestRuns.Logistic("r = { from = 2.6, to = 4.0, steps = 141 }\nx = { from = 0.2, to = 0.8, steps = 5 }"));
+        var table = await RunTable.ReadAsync(run, samples: false);
+        var regimes = MapRenderer.Build(run, table, new MapRequest(ColorMode.Regime, new Dictionary<string, double>()), "logistic");
+        using var regimeImage = Decode(regimes.GetImageBytes(1000, 700, ImageFormat.Png));
+        AssertColor(regimeImage, regimes.GetPixel(new Coordinates(2.8, 0.5)), Palette.ForRegime("fixed-point"));
+        AssertColor(regimeImage, regimes.GetPixel(new Coordinates(4.0, 0.35)), Palette.ForRegime("chaotic"));
+
+        // Exact: x0 = 1/2 at r = 4 goes to 1, then sticks on the unstable fixed point 0 — shown as unresolved.
+        AssertColor(regimeImage, regimes.GetPixel(new Coordinates(4.0, 0.5)), Palette.ForRegime("unresolved"));
+
+        // λ1 = ln 2 > 0 at r = 4 (May 1976) is red, the stable fixed point at r = 2.65 (λ = ln 0.65 < 0) is blue.
+        var exponents = MapRenderer.Build(run, table, new MapRequest(ColorMode.Lyapunov, new Dictionary<string, double>()), "logistic");
+        using var exponentImage = Decode(exponents.GetImageBytes(1000, 700, ImageFormat.Png));
+        var hot = exponentImage.GetPixel((int)exponents.GetPixel(new Coordinates(3.99, 0.35)).X, (int)exponents.GetPixel(new Coordinates(3.99, 0.35)).Y);
+        var cold = exponentImage.GetPixel((int)exponents.GetPixel(new Coordinates(2.65, 0.5)).X, (int)exponents.GetPixel(new Coordinates(2.65, 0.5)).Y);
+        Assert.True(hot.Red > hot.Blue + 40, $"λ > 0 should be red, got {hot}");
+        Assert.True(cold.Blue > cold.Red + 40, $"λ < 0 should be blue, got {cold}");
+    }
+
+    [Fact]
+    public async Task BifurcationDiagram_DrawsTwoBranchesAndTheStrip_ForPeriodTwo()
+    {
+        var run = await TestRuns.CreateAsync(folder, TestRuns.Logistic("r = { from = 2.8, to = 3.4, steps = 121 }"));
+        var table = await RunTable.ReadAsync(run, samples: true);
+        var plot = MapRenderer.Build(run, table, new MapRequest(ColorMode.Regime, new Dictionary<string, double>()), "logistic");
+        using var image = Decode(plot.GetImageBytes(900, 600, ImageFormat.Png));
+
+        // Exact: the 2-cycle at r = 3.2 is x± = (r + 1 ± √((r − 3)(r + 1)))/(2r) = 0.7995, 0.5130.
+        var r = 3.2;
+        var root = Math.Sqrt((r - 3) * (r + 1));
+        foreach (var branch in new[] { (r + 1 + root) / (2 * r), (r + 1 - root) / (2 * r) })
+        {
+            // The branch is about a pixel thick: look within ±2 pixels of where it should be.
+            var at = plot.GetPixel(new Coordinates(r, branch));
+            var darkest = Enumerable.Range(-2, 5).SelectMany(dx => Enumerable.Range(-2, 5).Select(dy => image.GetPixel((int)at.X + dx, (int)at.Y + dy).Red)).Min();
+            Assert.True(darkest < 200, $"a dense branch at x = {branch} should be dark near ({at.X}, {at.Y})");
+        }
+
+        var between = plot.GetPixel(new Coordinates(r, 0.65));
+        Assert.True(image.GetPixel((int)between.X, (int)between.Y).Red > 230, "between the branches there are no samples");
+        var strip = table.Samples!.Length;
+        Assert.Equal(121, strip);
+    }
+
+    [Fact]
+    public async Task Render_RefusesThreeFreeAxes_WithoutASlice()
+    {
+        var config = TestRuns.Logistic("r = { from = 3.0, to = 3.5, steps = 3 }\nx = { from = 0.2, to = 0.8, steps = 3 }").Replace("parameters = [\"r\"]", "parameters = [\"r\", \"h\"]")
+            .Replace("r*x*(1 - x)", "r*x*(1 - x) - h*x").Replace("[grid]", "[grid]\nh = { from = 0.0, to = 0.1, steps = 2 }");
+        var run = await TestRuns.CreateAsync(folder, config);
+        var table = await RunTable.ReadAsync(run, samples: false);
+        var error = Assert.Throws<ArgumentException>(() => MapRenderer.Build(run, table, new MapRequest(ColorMode.Regime, new Dictionary<string, double>()), "t"));
+        Assert.Contains("choose a plane with --slice NAME=VALUE", error.Message);
+        var sliced = MapRenderer.Build(run, table, new MapRequest(ColorMode.Regime, new Dictionary<string, double> { ["h"] = 0.1 }), "t");
+        Assert.NotNull(sliced);
+    }
+
+    public void Dispose()
+    {
+        if (Directory.Exists(folder))
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    private static SKBitmap Decode(byte[] png) => SKBitmap.Decode(png) ?? throw new InvalidOperationException("PNG did not decode");
+
+    private static void AssertColor(SKBitmap bitmap, Pixel pixel, Color expected)
+    {
+        var actual = bitmap.GetPixel((int)pixel.X, (int)pixel.Y);
+        Assert.True(
+            Math.Abs(actual.Red - expected.R) <= 2 && Math.Abs(actual.Green - expected.G) <= 2 && Math.Abs(actual.Blue - expected.B) <= 2,
+            $"pixel ({pixel.X}, {pixel.Y}) is {actual}, expected {expected.ToHex()}");
+    }
+}
