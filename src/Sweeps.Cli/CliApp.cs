@@ -28,6 +28,8 @@ internal static class CliApp
         root.Subcommands.Add(StatusCommand.Create(cli));
         root.Subcommands.Add(InspectCommand.Create(cli));
         root.Subcommands.Add(MapCommand.Create(cli));
+        root.Subcommands.Add(DiffCommand.Create(cli));
+        root.Subcommands.Add(ExportCommand.Create(cli));
 
         var parsed = root.Parse(args);
         if (parsed.Errors.Count > 0)

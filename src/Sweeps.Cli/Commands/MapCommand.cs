@@ -1,5 +1,4 @@
 using System.CommandLine;
-using System.Globalization;
 using Sweeps.Engine.Config;
 using Sweeps.Engine.Runs;
 using Sweeps.Maps;
@@ -40,7 +39,7 @@ internal static class MapCommand
                 throw ConfigException.Single("--width/--height", $"{w}×{h} is out of range (200×150 to 8000×8000)");
             }
 
-            var request = new MapRequest(mode, ParseSlices(parse.GetValue(slice) ?? []), w, h);
+            var request = new MapRequest(mode, MapSlices.Parse(parse.GetValue(slice) ?? []), w, h);
             var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
             var table = await RunTable.ReadAsync(run, samples: true, token);
             byte[] png;
@@ -58,22 +57,5 @@ internal static class MapCommand
             return ExitCodes.Success;
         });
         return command;
-    }
-
-    private static Dictionary<string, double> ParseSlices(IEnumerable<string> slices)
-    {
-        var result = new Dictionary<string, double>(StringComparer.Ordinal);
-        foreach (var slice in slices)
-        {
-            var parts = slice.Split('=', 2);
-            if (parts.Length != 2 || !double.TryParse(parts[1], NumberStyles.Float, CultureInfo.InvariantCulture, out var value))
-            {
-                throw ConfigException.Single($"--slice {slice}", "expected NAME=VALUE");
-            }
-
-            result[parts[0].Trim()] = value;
-        }
-
-        return result;
     }
 }

@@ -23,6 +23,9 @@ internal sealed class ChunkColumns
 
     public int Count { get; private set; }
 
+    /// <summary>Sets the row count after the columns were filled directly (by a reader).</summary>
+    public void SetCount(int count) => Count = count;
+
     public long[] Point { get; }
 
     public double[][] Axis { get; }

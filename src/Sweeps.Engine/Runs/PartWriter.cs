@@ -20,27 +20,7 @@ internal static class PartWriter
                 var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
                 await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, options, false, token);
                 writer.CustomMetadata = metadata.ToDictionary();
-                using var group = writer.CreateRowGroup();
-                var count = columns.Count;
-                await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point, 0, count), null, null, token);
-                for (var a = 0; a < schema.Axes.Count; a++)
-                {
-                    await group.WriteAsync(schema.Axes[a], new ReadOnlyMemory<double>(columns.Axis[a], 0, count), null, null, token);
-                }
-
-                await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
-                await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
-                await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
-                await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
-                await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
-                await WriteAll(group, schema.Final, columns.Final, count, token);
-                await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
-                await group.WriteAllPartsAsync<double>(
-                    schema.SampleValue,
-                    columns.SampleValues.ToArray(),
-                    new ReadOnlyMemory<int>(columns.SampleDefinitions.ToArray()),
-                    new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
-                    token);
+                await WriteRowGroupAsync(writer, schema, columns, token);
             }
 
             // At-least-once delivery can run a chunk twice; the first complete file wins, and both are identical.
@@ -57,6 +37,32 @@ internal static class PartWriter
         {
             File.Delete(temporary);
         }
+    }
+
+    /// <summary>Writes the columns as one row group of an open writer (parts have one; a merged export one per part).</summary>
+    public static async Task WriteRowGroupAsync(ParquetWriter writer, PartSchema schema, ChunkColumns columns, CancellationToken token)
+    {
+        using var group = writer.CreateRowGroup();
+        var count = columns.Count;
+        await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point, 0, count), null, null, token);
+        for (var a = 0; a < schema.Axes.Count; a++)
+        {
+            await group.WriteAsync(schema.Axes[a], new ReadOnlyMemory<double>(columns.Axis[a], 0, count), null, null, token);
+        }
+
+        await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
+        await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
+        await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
+        await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
+        await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
+        await WriteAll(group, schema.Final, columns.Final, count, token);
+        await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
+        await group.WriteAllPartsAsync<double>(
+            schema.SampleValue,
+            columns.SampleValues.ToArray(),
+            new ReadOnlyMemory<int>(columns.SampleDefinitions.ToArray()),
+            new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
+            token);
     }
 
     private static async Task WriteAll(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count, CancellationToken token)

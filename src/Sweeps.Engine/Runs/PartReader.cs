@@ -1,0 +1,59 @@
+using Parquet;
+using Parquet.Schema;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>Reads a whole part file back into <see cref="ChunkColumns"/> (for export and other whole-row uses).</summary>
+internal static class PartReader
+{
+    public static async Task<ChunkColumns> ReadAsync(string path, PartSchema schema, CancellationToken token)
+    {
+        await using var reader = await ParquetReader.CreateAsync(path, null, token);
+        var rows = (int)Enumerable.Range(0, reader.RowGroupCount).Sum(g => reader.OpenRowGroupReader(g).RowCount);
+        var columns = new ChunkColumns(rows, schema.Axes.Count, schema.Final.Count);
+        var offset = 0;
+        for (var g = 0; g < reader.RowGroupCount; g++)
+        {
+            using var group = reader.OpenRowGroupReader(g);
+            var count = (int)group.RowCount;
+            await Read(group, schema.Point, columns.Point.AsMemory(offset, count), token);
+            for (var a = 0; a < schema.Axes.Count; a++)
+            {
+                await Read(group, schema.Axes[a], columns.Axis[a].AsMemory(offset, count), token);
+            }
+
+            var regime = new string[count];
+            await group.ReadAsync(schema.Regime, regime, null, token);
+            regime.CopyTo(columns.Regime, offset);
+            await Read(group, schema.Period, columns.Period.AsMemory(offset, count), token);
+            await Read(group, schema.PeriodTime, columns.PeriodTime.AsMemory(offset, count), token);
+            for (var i = 0; i < schema.Lyapunov.Count; i++)
+            {
+                await Read(group, schema.Lyapunov[i], columns.Lyapunov[i].AsMemory(offset, count), token);
+                await Read(group, schema.LyapunovError[i], columns.LyapunovError[i].AsMemory(offset, count), token);
+                await Read(group, schema.Final[i], columns.Final[i].AsMemory(offset, count), token);
+            }
+
+            var reason = new string[count];
+            await group.ReadAsync(schema.Reason, reason, null, token);
+            reason.CopyTo(columns.Reason, offset);
+
+            var levels = (int)group.GetMetadata(schema.SampleValue)!.MetaData!.NumValues;
+            var values = new double[levels];
+            var definitions = new int[levels];
+            var repetitions = new int[levels];
+            await group.ReadRawAsync<double>(schema.SampleValue, values, definitions, repetitions, token);
+            var used = definitions.Count(d => d == 2);
+            columns.SampleValues.AddRange(values.Take(used));
+            columns.SampleDefinitions.AddRange(definitions);
+            columns.SampleRepetitions.AddRange(repetitions);
+            offset += count;
+        }
+
+        columns.SetCount(rows);
+        return columns;
+    }
+
+    private static async Task Read<T>(ParquetRowGroupReader group, DataField field, Memory<T> target, CancellationToken token)
+        where T : struct => await group.ReadAsync<T>(field, target, null, token);
+}

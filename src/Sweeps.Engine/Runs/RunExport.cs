@@ -1,0 +1,127 @@
+using System.Globalization;
+using System.Text;
+using Parquet;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// A whole run as one file, for tools that want one: a merged Parquet file (one row group per part,
+/// same columns and metadata) or CSV. Streams part by part in point order, so memory stays bounded by
+/// one chunk whatever the size of the run.
+/// </summary>
+public static class RunExport
+{
+    public static async Task<long> ParquetAsync(RunDirectory run, string path, CancellationToken token)
+    {
+        var schema = new PartSchema(run.LoadSpec());
+        var parts = Parts(run);
+        var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
+        var rows = 0L;
+        try
+        {
+            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write))
+            {
+                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, new ParquetOptions { CompressionMethod = CompressionMethod.Snappy }, false, token);
+                writer.CustomMetadata = await MetadataAsync(parts, token);
+                foreach (var part in parts)
+                {
+                    var columns = await PartReader.ReadAsync(part, schema, token);
+                    await PartWriter.WriteRowGroupAsync(writer, schema, columns, token);
+                    rows += columns.Count;
+                }
+            }
+
+            File.Move(temporary, path, overwrite: true);
+            return rows;
+        }
+        finally
+        {
+            File.Delete(temporary);
+        }
+    }
+
+    public static async Task<long> CsvAsync(RunDirectory run, TextWriter output, CancellationToken token)
+    {
+        var spec = run.LoadSpec();
+        var schema = new PartSchema(spec);
+        var header = new[] { "point" }
+            .Concat(schema.Axes.Select(a => a.Name))
+            .Concat(["regime", "period", "period_time"])
+            .Concat(schema.Lyapunov.Select(f => f.Name))
+            .Concat(schema.LyapunovError.Select(f => f.Name))
+            .Concat(schema.Final.Select(f => f.Name))
+            .Concat(["reason", "samples"]);
+        await output.WriteLineAsync(string.Join(",", header));
+        var rows = 0L;
+        var line = new StringBuilder();
+        foreach (var part in Parts(run))
+        {
+            var columns = await PartReader.ReadAsync(part, schema, token);
+            var sample = 0;
+            var level = 0;
+            for (var row = 0; row < columns.Count; row++)
+            {
+                line.Clear();
+                line.Append(columns.Point[row].ToString(CultureInfo.InvariantCulture));
+                foreach (var axis in columns.Axis)
+                {
+                    line.Append(',').Append(Number(axis[row]));
+                }
+
+                line.Append(',').Append(columns.Regime[row]).Append(',').Append(columns.Period[row].ToString(CultureInfo.InvariantCulture));
+                line.Append(',').Append(Number(columns.PeriodTime[row]));
+                foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final))
+                {
+                    line.Append(',').Append(Number(column[row]));
+                }
+
+                line.Append(',').Append(Quote(columns.Reason[row])).Append(',');
+
+                // One list per row: levels until the next repetition level 0.
+                var first = true;
+                do
+                {
+                    if (columns.SampleDefinitions[level] == 2)
+                    {
+                        line.Append(first ? "" : ";").Append(Number(columns.SampleValues[sample++]));
+                        first = false;
+                    }
+
+                    level++;
+                }
+                while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+
+                await output.WriteLineAsync(line.ToString());
+                rows++;
+            }
+        }
+
+        return rows;
+    }
+
+    /// <summary>Doubles in round-trip form; NaN, Infinity and -Infinity spelt as .NET, pandas and DuckDB read them.</summary>
+    public static string Number(double value) => value switch
+    {
+        double.PositiveInfinity => "Infinity",
+        double.NegativeInfinity => "-Infinity",
+        _ when double.IsNaN(value) => "NaN",
+        _ => value.ToString("R", CultureInfo.InvariantCulture),
+    };
+
+    private static string Quote(string? text) =>
+        text is null ? "" : "\"" + text.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"";
+
+    private static List<string> Parts(RunDirectory run) =>
+        Enumerable.Range(0, (int)run.Manifest.ChunkCount).Select(c => run.PartPath(c)).Where(File.Exists).ToList();
+
+    private static async Task<Dictionary<string, string>> MetadataAsync(List<string> parts, CancellationToken token)
+    {
+        if (parts.Count == 0)
+        {
+            return [];
+        }
+
+        await using var reader = await ParquetReader.CreateAsync(parts[0], null, token);
+        return reader.CustomMetadata.ToDictionary();
+    }
+}
