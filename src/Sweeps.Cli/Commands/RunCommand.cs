@@ -32,40 +32,18 @@ internal static class RunCommand
         command.Options.Add(set);
         command.SetAction(async (parse, token) =>
         {
-            var path = parse.GetRequiredValue(config);
-            var count = parse.GetValue(workers) ?? Environment.ProcessorCount;
-            if (count is < 1 or > 1024)
-            {
-                throw ConfigException.Single("--workers", $"{count} is out of range (1 to 1024)");
-            }
-
-            var overrides = parse.GetValue(set) ?? [];
-            var spec = PointOverrides.ApplyToSpec(SpecReader.Load(path), overrides);
-            var directory = parse.GetValue(outDir) ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(path));
-            return await RunAsync(cli, spec, File.ReadAllText(path), overrides, directory, count, token);
+            var count = SweepSetup.Workers(parse.GetValue(workers));
+            var setup = SweepSetup.Prepare(parse.GetRequiredValue(config), parse.GetValue(set) ?? [], parse.GetValue(outDir), count);
+            return await RunAsync(cli, setup, count, token);
         });
         return command;
     }
 
-    private static async Task<int> RunAsync(
-        CliContext cli, SweepSpec spec, string configText, IReadOnlyList<string> overrides, string directory, int workers, CancellationToken token)
+    private static async Task<int> RunAsync(CliContext cli, SweepSetup setup, int workers, CancellationToken token)
     {
         var output = cli.Output;
-        long chunkSize;
-        CostEstimate? estimate = null;
-        if (File.Exists(Path.Combine(directory, "run.json")))
-        {
-            chunkSize = RunDirectory.Open(directory).Manifest.ChunkSize;
-        }
-        else
-        {
-            estimate = CostEstimate.Measure(spec);
-            chunkSize = (spec.ChunkSize is { } size
-                ? ChunkPlan.Fixed(spec.Grid.PointCount, size)
-                : ChunkPlan.For(spec.Grid.PointCount, estimate.SecondsPerPoint, workers)).ChunkSize;
-        }
-
-        var (run, resumed) = RunDirectory.CreateOrResume(directory, spec, configText, overrides, chunkSize, cli.Clock);
+        var estimate = setup.Estimate;
+        var (run, resumed) = RunDirectory.CreateOrResume(setup.Directory, setup.Spec, setup.ConfigText, setup.Overrides, setup.ChunkSize, cli.Clock);
         var missing = run.MissingChunks();
         var manifest = run.Manifest;
         var pointsToRun = missing.Sum(chunk => Math.Min(manifest.ChunkSize, manifest.Points - (chunk * manifest.ChunkSize)));

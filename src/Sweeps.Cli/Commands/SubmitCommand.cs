@@ -30,23 +30,8 @@ internal static class SubmitCommand
         command.SetAction(async (parse, token) =>
         {
             var connection = QueueOptions.Require(parse, queue);
-            var path = parse.GetRequiredValue(config);
-            var overrides = parse.GetValue(set) ?? [];
-            var spec = PointOverrides.ApplyToSpec(SpecReader.Load(path), overrides);
-            var directory = parse.GetValue(outDir) ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(path));
-            long chunkSize;
-            if (File.Exists(Path.Combine(directory, "run.json")))
-            {
-                chunkSize = RunDirectory.Open(directory).Manifest.ChunkSize;
-            }
-            else
-            {
-                chunkSize = spec.ChunkSize is { } size
-                    ? size
-                    : ChunkPlan.For(spec.Grid.PointCount, CostEstimate.Measure(spec).SecondsPerPoint, Environment.ProcessorCount).ChunkSize;
-            }
-
-            var (run, _) = RunDirectory.CreateOrResume(directory, spec, File.ReadAllText(path), overrides, chunkSize, cli.Clock, cleanAbandoned: false);
+            var setup = SweepSetup.Prepare(parse.GetRequiredValue(config), parse.GetValue(set) ?? [], parse.GetValue(outDir), Environment.ProcessorCount);
+            var (run, _) = RunDirectory.CreateOrResume(setup.Directory, setup.Spec, setup.ConfigText, setup.Overrides, setup.ChunkSize, cli.Clock, cleanAbandoned: false);
             var missing = run.MissingChunks();
             var added = await QueueOptions.Guard(connection, () =>
             {

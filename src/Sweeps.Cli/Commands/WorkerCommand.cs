@@ -28,11 +28,7 @@ internal static class WorkerCommand
         command.SetAction(async (parse, token) =>
         {
             var connection = QueueOptions.Require(parse, queue);
-            var count = parse.GetValue(workers) ?? Environment.ProcessorCount;
-            if (count is < 1 or > 1024)
-            {
-                throw ConfigException.Single("--workers", $"{count} is out of range (1 to 1024)");
-            }
+            var count = SweepSetup.Workers(parse.GetValue(workers));
 
             var seconds = parse.GetValue(invisibility) ?? QueueSettings.DefaultInvisibility.TotalSeconds;
             if (!(seconds is >= 1 and <= 86400))

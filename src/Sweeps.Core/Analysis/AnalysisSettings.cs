@@ -13,6 +13,7 @@ namespace Sweeps.Core.Analysis;
 /// <param name="Escape">A state component beyond ±Escape counts as divergence.</param>
 /// <param name="ZeroBand">An exponent within ±max(ZeroBand, its convergence error) counts as zero.</param>
 /// <param name="Samples">Number of attractor samples (last states) kept per point.</param>
+/// <param name="TransientCheck">Analyse every point a second time with twice the transient; a different regime or period then makes the point unresolved (reason "transient").</param>
 public sealed record AnalysisSettings(
     long Transient = 1000,
     long Measure = 2000,
@@ -21,4 +22,5 @@ public sealed record AnalysisSettings(
     double Tolerance = 1e-9,
     double Escape = 1e12,
     double ZeroBand = 1e-3,
-    int Samples = 16);
+    int Samples = 16,
+    bool TransientCheck = false);

@@ -92,7 +92,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         detector.Reset();
         Array.Clear(sums);
         Array.Clear(firstHalf);
-        if (!Bounded(state))
+        if (!PointResult.Bounded(state, settings.Escape))
         {
             return Divergent(0, 0);
         }
@@ -115,7 +115,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
                 return Unresolved($"step budget of {integrator.MaxSteps} used up at t = {Format(t)}");
             }
 
-            if (!Bounded(state))
+            if (!PointResult.Bounded(state, settings.Escape))
             {
                 return Divergent(steps, t);
             }
@@ -167,7 +167,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
             }
 
             Array.Copy(augmented, state, n);
-            if (!Bounded(state))
+            if (!PointResult.Bounded(state, settings.Escape))
             {
                 return Divergent(steps, t);
             }
@@ -331,35 +331,10 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         return probe;
     }
 
-    private double[] Samples()
-    {
-        var count = Math.Min(settings.Samples, detector.Count);
-        if (count == 0)
-        {
-            return settings.Samples > 0 ? state.ToArray() : [];
-        }
+    /// <summary>The last section points (or stroboscopic samples); the final state when there were none.</summary>
+    private double[] Samples() =>
+        detector.Count == 0 && settings.Samples > 0 ? state.ToArray() : detector.Last(settings.Samples);
 
-        var samples = new double[count * n];
-        for (var i = 0; i < count; i++)
-        {
-            detector.State(detector.Count - count + i).CopyTo(samples.AsSpan(i * n, n));
-        }
-
-        return samples;
-    }
-
-    private bool Bounded(double[] values)
-    {
-        foreach (var value in values)
-        {
-            if (!(Math.Abs(value) <= settings.Escape))
-            {
-                return false;
-            }
-        }
-
-        return true;
-    }
 
     private static double Norm(ReadOnlySpan<double> values)
     {
@@ -394,18 +369,12 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         var what = Array.TrueForAll(state, double.IsFinite)
             ? $"escaped beyond ±{settings.Escape:g3} at t = {Format(time)} (step {step})"
             : $"non-finite state at t = {Format(time)} (step {step})";
-        return new PointResult(Regime.Divergent, 0, Nan(vectors), Nan(vectors), double.NaN, state.ToArray(), [], step, what, []);
+        return PointResult.Stopped(Regime.Divergent, vectors, state.ToArray(), step, what);
     }
 
     private PointResult Unresolved(string reason) =>
-        new(Regime.Unresolved, 0, Nan(vectors), Nan(vectors), double.NaN, state.ToArray(), [], null, reason, []);
+        PointResult.Stopped(Regime.Unresolved, vectors, state.ToArray(), null, reason);
 
-    private static double[] Nan(int count)
-    {
-        var values = new double[count];
-        Array.Fill(values, double.NaN);
-        return values;
-    }
 
     private static string Format(double value) => value.ToString("g6", CultureInfo.InvariantCulture);
 }

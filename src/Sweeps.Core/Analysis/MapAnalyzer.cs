@@ -63,7 +63,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     {
         initial.CopyTo(x);
         detector.Reset();
-        if (!Bounded(x))
+        if (!PointResult.Bounded(x, settings.Escape))
         {
             return Divergent(0);
         }
@@ -72,7 +72,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         {
             model.Evaluate(x, parameters, 0, y);
             (x, y) = (y, x);
-            if (!Bounded(x))
+            if (!PointResult.Bounded(x, settings.Escape))
             {
                 return Divergent(step);
             }
@@ -102,7 +102,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
 
             model.Evaluate(x, parameters, 0, y);
             (x, y) = (y, x);
-            if (!Bounded(x))
+            if (!PointResult.Bounded(x, settings.Escape))
             {
                 return Divergent(settings.Transient + step);
             }
@@ -144,7 +144,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             cycle,
             null,
             verdict.Reason,
-            Samples());
+            detector.Last(settings.Samples));
     }
 
     private (double[] Exponents, double[] Errors) Exponents()
@@ -220,46 +220,17 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return true;
     }
 
-    private bool Bounded(double[] state)
-    {
-        foreach (var value in state)
-        {
-            if (!(Math.Abs(value) <= settings.Escape))
-            {
-                return false;
-            }
-        }
 
-        return true;
-    }
-
-    private double[] Samples()
-    {
-        var count = Math.Min(settings.Samples, detector.Count);
-        var samples = new double[count * n];
-        for (var i = 0; i < count; i++)
-        {
-            detector.State(detector.Count - count + i).CopyTo(samples.AsSpan(i * n, n));
-        }
-
-        return samples;
-    }
 
     private PointResult Divergent(long step)
     {
         var what = Array.TrueForAll(x, double.IsFinite)
             ? $"escaped beyond ±{settings.Escape:g3} at iteration {step}"
             : $"non-finite state at iteration {step}";
-        return new PointResult(Regime.Divergent, 0, Nan(vectors), Nan(vectors), double.NaN, x.ToArray(), [], step, what, []);
+        return PointResult.Stopped(Regime.Divergent, vectors, x.ToArray(), step, what);
     }
 
     private PointResult Unresolved(string reason) =>
-        new(Regime.Unresolved, 0, Nan(vectors), Nan(vectors), double.NaN, x.ToArray(), [], null, reason, []);
+        PointResult.Stopped(Regime.Unresolved, vectors, x.ToArray(), null, reason);
 
-    private static double[] Nan(int count)
-    {
-        var values = new double[count];
-        Array.Fill(values, double.NaN);
-        return values;
-    }
 }

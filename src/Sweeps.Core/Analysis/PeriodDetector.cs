@@ -54,37 +54,74 @@ internal sealed class PeriodDetector
         return ring.AsSpan(slot * n, n);
     }
 
+    /// <summary>The last min(<paramref name="count"/>, Count) states, oldest first, row-major.</summary>
+    public double[] Last(int count)
+    {
+        count = Math.Min(count, this.count);
+        var states = new double[count * n];
+        for (var i = 0; i < count; i++)
+        {
+            State(this.count - count + i).CopyTo(states.AsSpan(i * n, n));
+        }
+
+        return states;
+    }
+
     /// <summary>The period, or 0 when none up to the maximum fits the window.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public int FindPeriod()
     {
         for (var p = 1; 2 * p <= count; p++)
         {
-            if (Repeats(p))
+            if (Deviation(p, tolerance) <= tolerance)
             {
-                return p;
+                return Smallest(p);
             }
         }
 
         return 0;
     }
 
-    private bool Repeats(int p)
+    /// <summary>
+    /// Guards against a cycle converging slowly with a multiplier near −1: its returns alternate about
+    /// the cycle, so they repeat every 2q steps within tolerance before they repeat every q. Points of a
+    /// genuine cycle are macroscopically apart, so a divisor q of p whose returns already agree to
+    /// √tolerance is the real period (this only merges cycles born within ~tolerance of a doubling).
+    /// </summary>
+    private int Smallest(int p)
     {
+        var loose = Math.Sqrt(tolerance);
+        for (var q = 1; q < p; q++)
+        {
+            if (p % q == 0 && Deviation(q, loose) <= loose)
+            {
+                return q;
+            }
+        }
+
+        return p;
+    }
+
+    /// <summary>Largest relative difference between states p steps apart in the window; stops early once above <paramref name="limit"/>.</summary>
+    private double Deviation(int p, double limit)
+    {
+        var worst = 0.0;
         for (var i = count - 1; i >= p; i--)
         {
             var a = State(i);
             var b = State(i - p);
             for (var j = 0; j < n; j++)
             {
-                var scale = 1.0 + Math.Max(Math.Abs(a[j]), Math.Abs(b[j]));
-                if (!(Math.Abs(a[j] - b[j]) <= tolerance * scale))
+                var deviation = Math.Abs(a[j] - b[j]) / (1.0 + Math.Max(Math.Abs(a[j]), Math.Abs(b[j])));
+                if (!(deviation <= limit))
                 {
-                    return false;
+                    return double.PositiveInfinity;
                 }
+
+                worst = Math.Max(worst, deviation);
             }
         }
 
-        return true;
+        return worst;
     }
 }

@@ -26,4 +26,27 @@ public sealed record PointResult(
     long? DivergedAt,
     string? Reason,
     double[] Samples,
-    double PeriodTime = double.NaN);
+    double PeriodTime = double.NaN)
+{
+    /// <summary>A point whose analysis stopped early (divergent or unresolved): exponents NaN, no cycle, no samples.</summary>
+    public static PointResult Stopped(Regime regime, int exponents, double[] state, long? divergedAt, string reason)
+    {
+        var nan = new double[exponents];
+        Array.Fill(nan, double.NaN);
+        return new PointResult(regime, 0, nan, nan.ToArray(), double.NaN, state, [], divergedAt, reason, []);
+    }
+
+    /// <summary>Whether every component is finite and within ±<paramref name="escape"/>.</summary>
+    public static bool Bounded(ReadOnlySpan<double> values, double escape)
+    {
+        foreach (var value in values)
+        {
+            if (!(Math.Abs(value) <= escape))
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+}

@@ -116,6 +116,23 @@ internal sealed class ConfigReader(string file)
         return x;
     }
 
+    public bool? Boolean(ConfigTable table, string key)
+    {
+        var entry = table.Find(key);
+        if (entry is null)
+        {
+            return null;
+        }
+
+        if (entry.Value is ConfigScalar { Value: bool value })
+        {
+            return value;
+        }
+
+        Problem(entry.Value.Position, $"{table.Name(key)}: must be true or false, not {entry.Value.TypeName}");
+        return null;
+    }
+
     public long? Integer(ConfigTable table, string key, long min, long max)
     {
         var entry = table.Find(key);

@@ -21,7 +21,7 @@ public static partial class SpecReader
             return defaults;
         }
 
-        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples");
+        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check");
         var maxPeriod = (int)(reader.Integer(table, "max_period", 1, 4096) ?? defaults.MaxPeriod);
         var measure = reader.Integer(table, "measure", 2, 10_000_000_000) ?? defaults.Measure;
         if (kind == ModelKind.Map && measure < 2 * maxPeriod && table.Find("measure") is { } entry)
@@ -49,7 +49,8 @@ public static partial class SpecReader
             Tolerance: reader.Number(table, "tolerance", t => t > 0 && t < 1, "between 0 and 1, exclusive") ?? defaults.Tolerance,
             Escape: reader.Number(table, "escape", e => e > 0, "must be > 0") ?? defaults.Escape,
             ZeroBand: reader.Number(table, "zero_band", z => z >= 0 && z < 1, "0 ≤ zero_band < 1") ?? defaults.ZeroBand,
-            Samples: samples);
+            Samples: samples,
+            TransientCheck: reader.Boolean(table, "transient_check") ?? defaults.TransientCheck);
     }
 
     private static IntegratorSettings ReadIntegrator(ConfigReader reader, ConfigTable root)

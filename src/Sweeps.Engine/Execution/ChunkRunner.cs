@@ -83,7 +83,7 @@ public static class ChunkRunner
         catch (Exception error) when (error is ArithmeticException or ArgumentException or InvalidOperationException or IndexOutOfRangeException)
         {
             var nan = Enumerable.Repeat(double.NaN, initial.Length).ToArray();
-            return new PointResult(Regime.Unresolved, 0, [], [], double.NaN, nan, [], null, $"analysis failed: {error.Message}", []);
+            return PointResult.Stopped(Regime.Unresolved, 0, nan, null, $"analysis failed: {error.Message}");
         }
     }
 }

@@ -7,7 +7,15 @@ namespace Sweeps.Engine.Probing;
 /// <summary>The right analyzer for a spec's model: maps iterate, flows integrate.</summary>
 public static class AnalyzerFactory
 {
-    public static IPointAnalyzer Create(SweepSpec spec, Model model) => model.Kind == ModelKind.Map
-        ? new MapAnalyzer(model, spec.Analysis)
-        : new FlowAnalyzer(model, spec.Analysis, spec.Integrator, spec.Section ?? new SectionSettings());
+    public static IPointAnalyzer Create(SweepSpec spec, Model model)
+    {
+        var analyzer = Create(spec, model, spec.Analysis);
+        return spec.Analysis.TransientCheck
+            ? new TransientCheckedAnalyzer(analyzer, Create(spec, model, spec.Analysis with { Transient = 2 * spec.Analysis.Transient }))
+            : analyzer;
+    }
+
+    private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings) => model.Kind == ModelKind.Map
+        ? new MapAnalyzer(model, settings)
+        : new FlowAnalyzer(model, settings, spec.Integrator, spec.Section ?? new SectionSettings());
 }

@@ -34,6 +34,7 @@ public static class SpecFingerprint
             ["escape"] = Number(spec.Analysis.Escape),
             ["zero_band"] = Number(spec.Analysis.ZeroBand),
             ["samples"] = spec.Analysis.Samples,
+            ["transient_check"] = spec.Analysis.TransientCheck,
         },
         ["integrator"] = spec.Model.Kind == ModelKind.Map ? null : new JsonObject
         {

@@ -93,6 +93,17 @@ public sealed class LogisticMapTests
         Assert.Contains($"iteration {result.DivergedAt}", result.Reason);
     }
 
+    // Just below r2 = 1 + √6 the 2-cycle's multiplier 4 + 2r − r² is close to −1 (exact), so its returns
+    // alternate about the cycle and repeat every 4 steps before they repeat every 2: still period 2.
+    [Fact]
+    public void Analyze_KeepsPeriodTwo_WhenTheTwoCycleConvergesWithMultiplierNearMinusOne()
+    {
+        var r = 1 + Math.Sqrt(6) - 0.01;
+        var result = At(r, 0.3, new AnalysisSettings(Transient: 400, Measure: 200, MaxPeriod: 16));
+        Assert.Equal(Regime.Periodic, result.Regime);
+        Assert.Equal(2, result.Period);
+    }
+
     [Fact]
     public void Analyze_IsDeterministic_WhenAnalyzerIsReused()
     {
@@ -102,5 +113,23 @@ public sealed class LogisticMapTests
         var again = analyzer.Analyze([0.3], [3.7]);
         Assert.Equal(first.Lyapunov, again.Lyapunov);
         Assert.Equal(first.FinalState, again.FinalState);
+    }
+
+    // Just above the period-doubling point r2 = 1 + √6 (Alligood, Sauer & Yorke 1996, p. 504) the new
+    // 4-cycle attracts slowly: 200 iterations of transient do not settle it within tolerance, 400 do,
+    // and the check reports the disagreement instead of guessing. Well inside an interval both agree.
+    [Fact]
+    public void TransientCheck_FlagsPointsWhereALongerTransientDisagrees()
+    {
+        var settings = new AnalysisSettings(Transient: 200, Measure: 200, MaxPeriod: 16, Tolerance: 1e-9);
+        var model = Maps.Logistic();
+        var checkedAnalyzer = new TransientCheckedAnalyzer(new MapAnalyzer(model, settings), new MapAnalyzer(model, settings with { Transient = 400 }));
+        var near = checkedAnalyzer.Analyze([0.3], [1 + Math.Sqrt(6) + 0.005]);
+        Assert.Equal(Regime.Unresolved, near.Regime);
+        Assert.StartsWith("transient: ", near.Reason);
+
+        var inside = checkedAnalyzer.Analyze([0.3], [3.2]);
+        Assert.Equal(Regime.Periodic, inside.Regime);
+        Assert.Equal(2, inside.Period);
     }
 }
