@@ -10,6 +10,8 @@ namespace Sweeps.Core.Analysis;
 /// </summary>
 public sealed class MapAnalyzer : IPointAnalyzer
 {
+    private const int FlushEvery = 16;
+
     private readonly Model model;
     private readonly AnalysisSettings settings;
     private readonly int n;
@@ -20,7 +22,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] scratch;
     private readonly double[] tangent;
     private readonly double[] product;
-    private readonly double[] logs;
+    private readonly double[] norms;
+    private readonly double[] products;
     private readonly double[] sums;
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
@@ -47,7 +50,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
         scratch = new double[n * n];
         tangent = new double[n * vectors];
         product = new double[n * vectors];
-        logs = new double[Math.Max(vectors, 1)];
+        norms = new double[Math.Max(vectors, 1)];
+        products = new double[Math.Max(vectors, 1)];
         sums = new double[Math.Max(vectors, 1)];
         firstHalf = new double[Math.Max(vectors, 1)];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
@@ -93,10 +97,16 @@ public sealed class MapAnalyzer : IPointAnalyzer
                     return Unresolved($"non-finite tangent vector at iteration {settings.Transient + step}");
                 }
 
-                if (vectors == n)
+                // For one variable ln|det J| is ln|f'|, the exponent itself: no second logarithm needed.
+                if (vectors == n && n > 1)
                 {
                     jacobian.CopyTo(scratch, 0);
                     logDetSum += SmallMatrix.LogAbsDeterminant(scratch, n);
+                }
+
+                if ((step & (FlushEvery - 1)) == 0)
+                {
+                    FlushProducts();
                 }
             }
 
@@ -109,6 +119,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
 
             if (step == half)
             {
+                FlushProducts();
                 sums.AsSpan(0, vectors).CopyTo(firstHalf);
             }
 
@@ -118,13 +129,14 @@ public sealed class MapAnalyzer : IPointAnalyzer
             }
         }
 
+        FlushProducts();
         return Classify(parameters, logDetSum);
     }
 
     private PointResult Classify(double[] parameters, double logDetSum)
     {
         var (exponents, errors) = Exponents();
-        var logDetMean = vectors == n && n > 0 ? logDetSum / settings.Measure : double.NaN;
+        var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
         var period = detector.FindPeriod();
         var cycle = new List<double[]>();
         for (var i = detector.Count - period; period > 0 && i < detector.Count; i++)
@@ -185,6 +197,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
 
     private void ResetTangent()
     {
+        Array.Fill(products, 1.0);
         Array.Clear(sums);
         Array.Clear(firstHalf);
         TangentFrame.Initial(n, vectors).CopyTo(tangent, 0);
@@ -206,7 +219,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             }
         }
 
-        if (!Orthonormalizer.Orthonormalize(product, n, vectors, logs))
+        if (!Orthonormalizer.Orthonormalize(product, n, vectors, norms))
         {
             return false;
         }
@@ -214,10 +227,27 @@ public sealed class MapAnalyzer : IPointAnalyzer
         product.AsSpan().CopyTo(tangent);
         for (var c = 0; c < vectors; c++)
         {
-            sums[c] += logs[c];
+            // Norms are multiplied up and their logarithm taken every FlushEvery steps (or sooner when
+            // the product leaves a safe range): one log per 16 steps instead of one per step.
+            var running = products[c] * norms[c];
+            products[c] = running;
+            if (!(running is > 1e-280 and < 1e280))
+            {
+                sums[c] += Math.Log(running);
+                products[c] = 1;
+            }
         }
 
         return true;
+    }
+
+    private void FlushProducts()
+    {
+        for (var c = 0; c < vectors; c++)
+        {
+            sums[c] += Math.Log(products[c]);
+            products[c] = 1;
+        }
     }
 
 

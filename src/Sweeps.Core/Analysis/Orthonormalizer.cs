@@ -7,17 +7,18 @@ namespace Sweeps.Core.Analysis;
 /// (column c occupies [c*n, c*n + n)). This is the re-orthonormalisation step of the Benettin/QR
 /// method (Benettin, Galgani, Giorgilli &amp; Strelcyn, Meccanica 15, 1980; Shimada &amp; Nagashima,
 /// Prog. Theor. Phys. 61, 1979): the logarithms of the diagonal of R accumulate to the exponents.
+/// It reports the norms themselves, so that callers can multiply them up and take logarithms rarely.
 /// Hand-written because it runs every step and must not allocate.
 /// </summary>
 internal static class Orthonormalizer
 {
     /// <summary>
-    /// Orthonormalises the columns in place and writes ln|R_cc| into <paramref name="logs"/>. A column
-    /// that collapses to exactly zero (a superstable direction) gets ln 0 = −∞ and is replaced by a unit
-    /// vector orthogonal to the others, so later steps stay finite. Returns false if a norm is not finite.
+    /// Orthonormalises the columns in place and writes |R_cc| into <paramref name="norms"/>. A column
+    /// that collapses to exactly zero (a superstable direction) gets norm 0 (ln 0 = −∞) and is replaced by
+    /// a unit vector orthogonal to the others, so later steps stay finite. Returns false if a norm is not finite.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    public static bool Orthonormalize(Span<double> columns, int n, int k, Span<double> logs)
+    public static bool Orthonormalize(Span<double> columns, int n, int k, Span<double> norms)
     {
         for (var c = 0; c < k; c++)
         {
@@ -40,12 +41,12 @@ internal static class Orthonormalizer
 
             if (norm == 0)
             {
-                logs[c] = double.NegativeInfinity;
+                norms[c] = 0;
                 ReplaceWithOrthogonalUnit(columns, n, c);
                 continue;
             }
 
-            logs[c] = Math.Log(norm);
+            norms[c] = norm;
             var inverse = 1.0 / norm;
             for (var i = 0; i < n; i++)
             {

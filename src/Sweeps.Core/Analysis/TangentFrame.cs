@@ -18,8 +18,8 @@ internal static class TangentFrame
             frame[i] = random.NextDouble() - 0.5;
         }
 
-        var logs = new double[Math.Max(k, 1)];
-        Orthonormalizer.Orthonormalize(frame, n, k, logs);
+        var norms = new double[Math.Max(k, 1)];
+        Orthonormalizer.Orthonormalize(frame, n, k, norms);
         return frame;
     }
 }
