@@ -20,7 +20,7 @@ public sealed class ChunkJob(RunContexts contexts, RunProgress progress, JobStor
             var context = contexts.Get(runDirectory);
             await ChunkRunner.RunAsync(context, chunk, counters.AddPoints, cancellationToken);
             counters.ChunkDone();
-            if (context.Run.MissingChunks().Count == 0)
+            if (context.Run.CompletedParts() == context.Run.Manifest.ChunkCount)
             {
                 // The last part of a run, whoever wrote it, closes the manifest (idempotent).
                 context.Run.MarkFinished(TimeProvider.System);

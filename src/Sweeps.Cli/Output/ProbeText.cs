@@ -42,7 +42,8 @@ internal static class ProbeText
         WriteExponents(output, result, model.Kind);
         Line(output, "final state", Numbers.Assignments(model.Variables, result.FinalState));
         output.WriteLine();
-        output.WriteLine(report.FixedPoints.Count == 0 ? "fixed points: none found" : $"fixed points: {report.FixedPoints.Count}");
+        var heading = model.Kind == ModelKind.Map ? "fixed points" : "equilibria";
+        output.WriteLine(report.FixedPoints.Count == 0 ? $"{heading}: none found" : $"{heading}: {report.FixedPoints.Count}");
         foreach (var point in report.FixedPoints)
         {
             var eigenvalues = string.Join(", ", point.Eigenvalues.Select(Numbers.Format));

@@ -52,6 +52,9 @@ public sealed class RunDirectory
         return missing;
     }
 
+    /// <summary>How many part files exist: one directory listing, cheap enough to ask after every chunk.</summary>
+    public long CompletedParts() => Directory.EnumerateFiles(PartsPath, "part-*.parquet").LongCount();
+
     /// <summary>Opens an existing run; a missing or unreadable manifest is bad input.</summary>
     public static RunDirectory Open(string path)
     {
