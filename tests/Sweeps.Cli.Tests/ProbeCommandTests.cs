@@ -32,7 +32,7 @@ public sealed class ProbeCommandTests
         string[] keys =
         [
             "kind", "parameters", "initial", "regime", "period", "period_time", "cycle", "lyapunov", "lyapunov_error",
-            "lyapunov_sum", "mean_log_det", "final_state", "diverged_at", "reason", "fixed_points", "notes",
+            "lyapunov_sum", "mean_log_det", "final_state", "diverged_at", "reason", "indicators", "fixed_points", "notes",
         ];
         Assert.Equal(keys, json.RootElement.EnumerateObject().Select(p => p.Name));
         var point = json.RootElement.GetProperty("fixed_points")[1];

@@ -127,6 +127,26 @@ public sealed class DiffExportTests
     }
 
     [Fact]
+    public void Run_WritesIndicatorColumns_OnlyWhenAsked()
+    {
+        using var temp = new TempFolder();
+        var config = temp.Write("stock.toml", Config.Replace("samples = 6", "samples = 6\nindicators = true"));
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "run").ExitCode);
+        var data = IndependentReader.ReadRun(Path.Combine(temp.Path, "run"));
+        var k = data.Columns.ToList().IndexOf("zero_one_k");
+        Assert.True(k > 0, string.Join(",", data.Columns));
+        Assert.Contains("permutation_entropy", data.Columns);
+        Assert.Contains("lz_complexity", data.Columns);
+
+        // Gottwald & Melbourne (2004): K near 1 where the run found chaos at r = 4.
+        var end = data.Rows.Single(r => (long)r[0]! == 299);
+        Assert.Equal("chaotic", end[2]);
+        Assert.True((double)end[k]! > 0.8);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", temp.Write("plain.toml", Config), "--out", "plain").ExitCode);
+        Assert.DoesNotContain("zero_one_k", IndependentReader.ReadRun(Path.Combine(temp.Path, "plain")).Columns);
+    }
+
+    [Fact]
     public void Map_WritesAPng_ForEachColouring()
     {
         using var temp = new TempFolder();

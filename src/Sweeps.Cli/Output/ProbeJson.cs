@@ -47,6 +47,21 @@ internal static class ProbeJson
             }
 
             json.WriteString("reason", result.Reason);
+            if (result.Indicators is { } indicators)
+            {
+                json.WriteStartObject("indicators");
+                json.WritePropertyName("zero_one_k");
+                JsonNumbers.Write(json, indicators.K);
+                json.WritePropertyName("permutation_entropy");
+                JsonNumbers.Write(json, indicators.PermutationEntropy);
+                json.WritePropertyName("lz_complexity");
+                JsonNumbers.Write(json, indicators.LempelZiv);
+                json.WriteEndObject();
+            }
+            else
+            {
+                json.WriteNull("indicators");
+            }
             json.WriteStartArray("fixed_points");
             foreach (var point in report.FixedPoints)
             {

@@ -40,6 +40,11 @@ internal static class ProbeText
         }
 
         WriteExponents(output, result, model.Kind);
+        if (result.Indicators is { } indicators)
+        {
+            Line(output, "indicators", $"0-1 test K = {Numbers.Format(indicators.K, "g3")}; permutation entropy {Numbers.Format(indicators.PermutationEntropy, "g3")} (max ln 24 = 3.18); Lempel-Ziv {Numbers.Format(indicators.LempelZiv, "g3")}");
+        }
+
         Line(output, "final state", Numbers.Assignments(model.Variables, result.FinalState));
         output.WriteLine();
         var heading = model.Kind == ModelKind.Map ? "fixed points" : "equilibria";

@@ -27,6 +27,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] sums;
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
+    private readonly double[] series;
 
     public MapAnalyzer(Model model, AnalysisSettings settings)
     {
@@ -55,7 +56,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
         sums = new double[Math.Max(vectors, 1)];
         firstHalf = new double[Math.Max(vectors, 1)];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
+        series = settings.Indicators ? new double[(int)Math.Min(settings.Measure, IndicatorWindow)] : [];
     }
+
+    /// <summary>Iterations of the first variable the indicators look at: the last ones measured.</summary>
+    public const int IndicatorWindow = 2048;
 
     public Model Model => model;
 
@@ -127,6 +132,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
             {
                 detector.Push(x);
             }
+
+            if (series.Length > 0 && step > measure - series.Length)
+            {
+                series[(int)(step - (measure - series.Length) - 1)] = x[0];
+            }
         }
 
         FlushProducts();
@@ -146,6 +156,12 @@ public sealed class MapAnalyzer : IPointAnalyzer
 
         var multiplier = period > 0 ? CycleMultiplier(cycle, parameters) : double.NaN;
         var verdict = MapClassifier.Decide(period, multiplier, exponents, errors, settings);
+        var indicators = series.Length > 0 ? Core.Indicators.IndicatorValues.Of(series) : null;
+        if (indicators?.Disagreement(verdict.Regime) is { } disagreement)
+        {
+            verdict = verdict with { Reason = verdict.Reason is null ? disagreement : $"{verdict.Reason}; {disagreement}" };
+        }
+
         return new PointResult(
             verdict.Regime,
             verdict.Regime is Regime.FixedPoint or Regime.Periodic ? period : 0,
@@ -156,7 +172,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
             cycle,
             null,
             verdict.Reason,
-            detector.Last(settings.Samples));
+            detector.Last(settings.Samples),
+            Indicators: indicators);
     }
 
     private (double[] Exponents, double[] Errors) Exponents()

@@ -15,6 +15,7 @@ namespace Sweeps.Core.Analysis;
 /// <param name="Reason">Why the point is unresolved or divergent, or a caution; null otherwise.</param>
 /// <param name="Samples">The last states of the orbit (maps) or section points (flows), row-major (Samples × n).</param>
 /// <param name="PeriodTime">Flows: the duration of the cycle in time units; NaN for maps and when no cycle was found.</param>
+/// <param name="Indicators">Second-opinion indicators, when asked for (maps).</param>
 public sealed record PointResult(
     Regime Regime,
     int Period,
@@ -26,7 +27,8 @@ public sealed record PointResult(
     long? DivergedAt,
     string? Reason,
     double[] Samples,
-    double PeriodTime = double.NaN)
+    double PeriodTime = double.NaN,
+    Indicators.IndicatorValues? Indicators = null)
 {
     /// <summary>A point whose analysis stopped early (divergent or unresolved): exponents NaN, no cycle, no samples.</summary>
     public static PointResult Stopped(Regime regime, int exponents, double[] state, long? divergedAt, string reason)

@@ -21,7 +21,7 @@ public static partial class SpecReader
             return defaults;
         }
 
-        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check");
+        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check", "indicators");
         var maxPeriod = (int)(reader.Integer(table, "max_period", 1, 4096) ?? defaults.MaxPeriod);
         var measure = reader.Integer(table, "measure", 2, 10_000_000_000) ?? defaults.Measure;
         if (kind == ModelKind.Map && measure < 2 * maxPeriod && table.Find("measure") is { } entry)
@@ -50,7 +50,20 @@ public static partial class SpecReader
             Escape: reader.Number(table, "escape", e => e > 0, "must be > 0") ?? defaults.Escape,
             ZeroBand: reader.Number(table, "zero_band", z => z >= 0 && z < 1, "0 ≤ zero_band < 1") ?? defaults.ZeroBand,
             Samples: samples,
-            TransientCheck: reader.Boolean(table, "transient_check") ?? defaults.TransientCheck);
+            TransientCheck: reader.Boolean(table, "transient_check") ?? defaults.TransientCheck,
+            Indicators: ReadIndicators(reader, table, kind));
+    }
+
+    private static bool ReadIndicators(ConfigReader reader, ConfigTable table, ModelKind kind)
+    {
+        var wanted = reader.Boolean(table, "indicators") ?? false;
+        if (wanted && kind == ModelKind.Flow)
+        {
+            reader.Problem(table.Find("indicators")!.Value.Position, "analysis.indicators: the second-opinion indicators are computed for maps only in this version");
+            return false;
+        }
+
+        return wanted;
     }
 
     private static IntegratorSettings ReadIntegrator(ConfigReader reader, ConfigTable root)

@@ -37,7 +37,7 @@ public static class ChunkRunner
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
-        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count);
+        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators);
         var initial = new double[spec.Initial.Count];
         var parameters = new double[spec.Parameters.Count];
         var axisValues = new double[spec.Grid.Axes.Count];

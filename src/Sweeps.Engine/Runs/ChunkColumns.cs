@@ -7,8 +7,9 @@ internal sealed class ChunkColumns
 {
     private readonly int n;
 
-    public ChunkColumns(int capacity, int axes, int dimension)
+    public ChunkColumns(int capacity, int axes, int dimension, bool indicators = false)
     {
+        Indicators = Columns(indicators ? 3 : 0, capacity);
         n = dimension;
         Point = new long[capacity];
         Axis = Columns(axes, capacity);
@@ -42,6 +43,9 @@ internal sealed class ChunkColumns
 
     public double[][] Final { get; }
 
+    /// <summary>K, permutation entropy, Lempel–Ziv complexity (empty unless indicators are on).</summary>
+    public double[][] Indicators { get; }
+
     public string?[] Reason { get; }
 
     /// <summary>Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list; repetition 0 starts a row.</summary>
@@ -68,6 +72,14 @@ internal sealed class ChunkColumns
             Lyapunov[i][row] = i < result.Lyapunov.Length ? result.Lyapunov[i] : double.NaN;
             LyapunovError[i][row] = i < result.LyapunovError.Length ? result.LyapunovError[i] : double.NaN;
             Final[i][row] = result.FinalState[i];
+        }
+
+        if (Indicators.Length > 0)
+        {
+            var values = result.Indicators;
+            Indicators[0][row] = values?.K ?? double.NaN;
+            Indicators[1][row] = values?.PermutationEntropy ?? double.NaN;
+            Indicators[2][row] = values?.LempelZiv ?? double.NaN;
         }
 
         Reason[row] = result.Reason;

@@ -10,7 +10,7 @@ internal static class PartReader
     {
         await using var reader = await ParquetReader.CreateAsync(path, null, token);
         var rows = (int)Enumerable.Range(0, reader.RowGroupCount).Sum(g => reader.OpenRowGroupReader(g).RowCount);
-        var columns = new ChunkColumns(rows, schema.Axes.Count, schema.Final.Count);
+        var columns = new ChunkColumns(rows, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0);
         var offset = 0;
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
@@ -32,6 +32,11 @@ internal static class PartReader
                 await Read(group, schema.Lyapunov[i], columns.Lyapunov[i].AsMemory(offset, count), token);
                 await Read(group, schema.LyapunovError[i], columns.LyapunovError[i].AsMemory(offset, count), token);
                 await Read(group, schema.Final[i], columns.Final[i].AsMemory(offset, count), token);
+            }
+
+            for (var i = 0; i < schema.Indicators.Count; i++)
+            {
+                await Read(group, schema.Indicators[i], columns.Indicators[i].AsMemory(offset, count), token);
             }
 
             var reason = new string[count];

@@ -6,7 +6,7 @@ namespace Sweeps.Engine.Runs;
 /// <summary>
 /// The columns of a part file, in order: <c>point</c>, one column per grid axis, <c>regime</c>,
 /// <c>period</c>, <c>period_time</c> (flows; NaN for maps), <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
-/// <c>reason</c> and <c>samples</c> (the last states, row-major, as a list). Part of the output contract.
+/// (with indicators: <c>zero_one_k</c>, <c>permutation_entropy</c>, <c>lz_complexity</c>), <c>reason</c> and <c>samples</c> (the last states, row-major, as a list). Part of the output contract.
 /// </summary>
 public sealed class PartSchema
 {
@@ -22,6 +22,9 @@ public sealed class PartSchema
         LyapunovError = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_error_{i}")).ToArray();
         Final = spec.Model.Variables.Select(v => new DataField<double>($"final_{v}")).ToArray();
         Reason = new DataField<string>("reason", true);
+        Indicators = spec.Analysis.Indicators
+            ? [new DataField<double>("zero_one_k"), new DataField<double>("permutation_entropy"), new DataField<double>("lz_complexity")]
+            : [];
         SampleValue = new DataField<double>("element");
         Samples = new ListField("samples", SampleValue);
         Schema = new ParquetSchema(
@@ -33,6 +36,7 @@ public sealed class PartSchema
                 .Concat(Lyapunov)
                 .Concat(LyapunovError)
                 .Concat(Final)
+                .Concat(Indicators)
                 .Append(Reason)
                 .Append(Samples));
     }
@@ -60,6 +64,9 @@ public sealed class PartSchema
     public IReadOnlyList<DataField<double>> LyapunovError { get; }
 
     public IReadOnlyList<DataField<double>> Final { get; }
+
+    /// <summary>zero_one_k, permutation_entropy, lz_complexity — present only when the spec asks for indicators.</summary>
+    public IReadOnlyList<DataField<double>> Indicators { get; }
 
     public DataField<string> Reason { get; }
 

@@ -56,6 +56,7 @@ internal static class PartWriter
         await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
         await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
         await WriteAll(group, schema.Final, columns.Final, count, token);
+        await WriteAll(group, schema.Indicators, columns.Indicators, count, token);
         await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
         await group.WriteAllPartsAsync<double>(
             schema.SampleValue,

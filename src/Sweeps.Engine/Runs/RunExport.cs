@@ -50,6 +50,7 @@ public static class RunExport
             .Concat(schema.Lyapunov.Select(f => f.Name))
             .Concat(schema.LyapunovError.Select(f => f.Name))
             .Concat(schema.Final.Select(f => f.Name))
+            .Concat(schema.Indicators.Select(f => f.Name))
             .Concat(["reason", "samples"]);
         await output.WriteLineAsync(string.Join(",", header));
         var rows = 0L;
@@ -70,7 +71,7 @@ public static class RunExport
 
                 line.Append(',').Append(columns.Regime[row]).Append(',').Append(columns.Period[row].ToString(CultureInfo.InvariantCulture));
                 line.Append(',').Append(Number(columns.PeriodTime[row]));
-                foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final))
+                foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final).Concat(columns.Indicators))
                 {
                     line.Append(',').Append(Number(column[row]));
                 }

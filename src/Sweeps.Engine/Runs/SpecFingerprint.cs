@@ -35,6 +35,7 @@ public static class SpecFingerprint
             ["zero_band"] = Number(spec.Analysis.ZeroBand),
             ["samples"] = spec.Analysis.Samples,
             ["transient_check"] = spec.Analysis.TransientCheck,
+            ["indicators"] = spec.Analysis.Indicators,
         },
         ["integrator"] = spec.Model.Kind == ModelKind.Map ? null : new JsonObject
         {
