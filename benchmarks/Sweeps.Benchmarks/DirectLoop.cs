@@ -21,14 +21,16 @@ internal static class DirectLoop
         var threads = Enumerable.Range(0, workers).Select(w => new Thread(() =>
         {
             var analyzer = AnalyzerFactory.Create(spec, model);
-            var initial = new double[spec.Initial.Count];
-            var parameters = new double[spec.Parameters.Count];
+            var baseInitial = spec.Initial.ToArray();
+            var baseParameters = spec.Parameters.ToArray();
+            var initial = new double[baseInitial.Length];
+            var parameters = new double[baseParameters.Length];
             var (first, last) = (points * w / workers, points * (w + 1) / workers);
             var sum = 0.0;
             for (var point = first; point < last; point++)
             {
-                spec.Initial.ToArray().CopyTo(initial, 0);
-                spec.Parameters.ToArray().CopyTo(parameters, 0);
+                baseInitial.CopyTo(initial, 0);
+                baseParameters.CopyTo(parameters, 0);
                 spec.Grid.Apply(point, initial, parameters);
                 var result = analyzer.Analyze(initial, parameters);
                 sum += result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);

@@ -13,6 +13,7 @@ namespace Sweeps.Core.Analysis;
 /// <param name="Escape">A state component beyond ±Escape counts as divergence.</param>
 /// <param name="ZeroBand">An exponent within ±max(ZeroBand, its convergence error) counts as zero.</param>
 /// <param name="Samples">Number of attractor samples (last states) kept per point.</param>
+/// <param name="StepCheck">Flows: analyse every point again with half the step (a hundredth of the tolerances for Dormand–Prince); a different regime or period makes the point unresolved (reason "step").</param>
 /// <param name="Indicators">Also compute the 0–1 test, permutation entropy and Lempel–Ziv complexity of the first variable over the last measured iterations (maps), and say in the reason when they disagree with the exponents.</param>
 /// <param name="TransientCheck">Analyse every point a second time with twice the transient; a different regime or period then makes the point unresolved (reason "transient").</param>
 public sealed record AnalysisSettings(
@@ -25,4 +26,5 @@ public sealed record AnalysisSettings(
     double ZeroBand = 1e-3,
     int Samples = 16,
     bool TransientCheck = false,
-    bool Indicators = false);
+    bool Indicators = false,
+    bool StepCheck = false);

@@ -21,7 +21,7 @@ public static partial class SpecReader
             return defaults;
         }
 
-        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check", "indicators");
+        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check", "step_check", "indicators");
         var maxPeriod = (int)(reader.Integer(table, "max_period", 1, 4096) ?? defaults.MaxPeriod);
         var measure = reader.Integer(table, "measure", 2, 10_000_000_000) ?? defaults.Measure;
         if (kind == ModelKind.Map && measure < 2 * maxPeriod && table.Find("measure") is { } entry)
@@ -51,7 +51,20 @@ public static partial class SpecReader
             ZeroBand: reader.Number(table, "zero_band", z => z >= 0 && z < 1, "0 ≤ zero_band < 1") ?? defaults.ZeroBand,
             Samples: samples,
             TransientCheck: reader.Boolean(table, "transient_check") ?? defaults.TransientCheck,
-            Indicators: ReadIndicators(reader, table, kind));
+            Indicators: ReadIndicators(reader, table, kind),
+            StepCheck: ReadStepCheck(reader, table, kind));
+    }
+
+    private static bool ReadStepCheck(ConfigReader reader, ConfigTable table, ModelKind kind)
+    {
+        var wanted = reader.Boolean(table, "step_check") ?? false;
+        if (wanted && kind == ModelKind.Map)
+        {
+            reader.Problem(table.Find("step_check")!.Value.Position, "analysis.step_check: maps have no integration step (try transient_check)");
+            return false;
+        }
+
+        return wanted;
     }
 
     private static bool ReadIndicators(ConfigReader reader, ConfigTable table, ModelKind kind)

@@ -1,4 +1,5 @@
 using Sweeps.Core.Analysis;
+using Sweeps.Core.Integrators;
 using Sweeps.Core.Models;
 using Sweeps.Engine.Specs;
 
@@ -9,13 +10,29 @@ public static class AnalyzerFactory
 {
     public static IPointAnalyzer Create(SweepSpec spec, Model model)
     {
-        var analyzer = Create(spec, model, spec.Analysis);
-        return spec.Analysis.TransientCheck
-            ? new TransientCheckedAnalyzer(analyzer, Create(spec, model, spec.Analysis with { Transient = 2 * spec.Analysis.Transient }))
-            : analyzer;
+        var analyzer = Create(spec, model, spec.Analysis, spec.Integrator);
+        if (spec.Analysis.TransientCheck)
+        {
+            var longer = Create(spec, model, spec.Analysis with { Transient = 2 * spec.Analysis.Transient }, spec.Integrator);
+            analyzer = new CrossCheckedAnalyzer(analyzer, longer, "transient", "twice the transient");
+        }
+
+        if (spec.Analysis.StepCheck && model.Kind == ModelKind.Flow)
+        {
+            // Half the step for fixed-step schemes; a hundredth of the tolerances (about half the step) for Dormand–Prince.
+            var finer = spec.Integrator with
+            {
+                Step = spec.Integrator.Step / 2,
+                RelativeTolerance = spec.Integrator.RelativeTolerance / 100,
+                AbsoluteTolerance = spec.Integrator.AbsoluteTolerance / 100,
+            };
+            analyzer = new CrossCheckedAnalyzer(analyzer, Create(spec, model, spec.Analysis, finer), "step", "half the step");
+        }
+
+        return analyzer;
     }
 
-    private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings) => model.Kind == ModelKind.Map
+    private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings, IntegratorSettings integrator) => model.Kind == ModelKind.Map
         ? new MapAnalyzer(model, settings)
-        : new FlowAnalyzer(model, settings, spec.Integrator, spec.Section ?? new SectionSettings());
+        : new FlowAnalyzer(model, settings, integrator, spec.Section ?? new SectionSettings());
 }

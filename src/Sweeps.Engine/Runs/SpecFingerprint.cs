@@ -36,6 +36,7 @@ public static class SpecFingerprint
             ["samples"] = spec.Analysis.Samples,
             ["transient_check"] = spec.Analysis.TransientCheck,
             ["indicators"] = spec.Analysis.Indicators,
+            ["step_check"] = spec.Analysis.StepCheck,
         },
         ["integrator"] = spec.Model.Kind == ModelKind.Map ? null : new JsonObject
         {

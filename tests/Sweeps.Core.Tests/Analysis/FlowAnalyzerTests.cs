@@ -209,4 +209,23 @@ public sealed class FlowAnalyzerTests
             return result.Regime is Regime.FixedPoint or Regime.Divergent or Regime.Unresolved && result.Period == 0;
         }, iter: 60, threads: 1);
     }
+
+    // Exact: explicit Euler multiplies a damped oscillator's amplitude by |1 + hλ| per step, which
+    // exceeds 1 for h > 2ζ/ω (0.2 here): at h = 0.25 the decaying oscillator appears to grow, at 0.125 it
+    // decays. The step check reports the disagreement; with RK4 at a fine step both runs agree.
+    [Fact]
+    public void StepCheck_FlagsAPointWhoseRegimeDependsOnTheStep()
+    {
+        var oscillator = Flow(["x", "v"], ["zeta", "omega"], "v", "-2*zeta*omega*v - omega^2*x");
+        var settings = new AnalysisSettings(Transient: 50, Measure: 100, Tolerance: 1e-6);
+        IPointAnalyzer Make(IntegratorSettings integrator) => new FlowAnalyzer(oscillator, settings, integrator, new SectionSettings());
+        var coarse = new IntegratorSettings(IntegratorMethod.Euler, 0.25);
+        var flagged = new CrossCheckedAnalyzer(Make(coarse), Make(coarse with { Step = 0.125 }), "step", "half the step").Analyze([1, 0], [0.2, 2]);
+        Assert.Equal(Regime.Unresolved, flagged.Regime);
+        Assert.StartsWith("step: ", flagged.Reason);
+
+        var fine = new IntegratorSettings(IntegratorMethod.Rk4, 0.01);
+        var agreed = new CrossCheckedAnalyzer(Make(fine), Make(fine with { Step = 0.005 }), "step", "half the step").Analyze([1, 0], [0.2, 2]);
+        Assert.Equal(Regime.FixedPoint, agreed.Regime);
+    }
 }

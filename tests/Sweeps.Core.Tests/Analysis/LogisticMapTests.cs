@@ -123,7 +123,7 @@ public sealed class LogisticMapTests
     {
         var settings = new AnalysisSettings(Transient: 200, Measure: 200, MaxPeriod: 16, Tolerance: 1e-9);
         var model = Maps.Logistic();
-        var checkedAnalyzer = new TransientCheckedAnalyzer(new MapAnalyzer(model, settings), new MapAnalyzer(model, settings with { Transient = 400 }));
+        var checkedAnalyzer = new CrossCheckedAnalyzer(new MapAnalyzer(model, settings), new MapAnalyzer(model, settings with { Transient = 400 }), "transient", "twice the transient");
         var near = checkedAnalyzer.Analyze([0.3], [1 + Math.Sqrt(6) + 0.005]);
         Assert.Equal(Regime.Unresolved, near.Regime);
         Assert.StartsWith("transient: ", near.Reason);
