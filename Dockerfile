@@ -7,7 +7,7 @@ RUN dotnet publish src/Sweeps.Cli -c Release -o /app
 FROM mcr.microsoft.com/dotnet/runtime:10.0
 # Map and diff images need real font files; the numerics need nothing else.
 RUN apt-get update && apt-get install -y --no-install-recommends fonts-dejavu-core && rm -rf /var/lib/apt/lists/*
-WORKDIR /work
+WORKDIR /sweeps
 COPY --from=build /app /app
-COPY configs /work/configs
+COPY configs /sweeps/configs
 ENTRYPOINT ["dotnet", "/app/sweeps.dll"]
