@@ -220,6 +220,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         TangentFrame.Initial(n, vectors).CopyTo(tangent, 0);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private bool AdvanceTangent()
     {
         for (var c = 0; c < vectors; c++)
@@ -258,6 +259,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return true;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void FlushProducts()
     {
         for (var c = 0; c < vectors; c++)

@@ -39,6 +39,7 @@ internal sealed class PeriodDetector
         Pushed = 0;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Push(ReadOnlySpan<double> state)
     {
         state.CopyTo(ring.AsSpan(next * n, n));
@@ -48,6 +49,7 @@ internal sealed class PeriodDetector
     }
 
     /// <summary>The i-th stored state, 0 being the oldest.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public ReadOnlySpan<double> State(int i)
     {
         var slot = (next - count + i + Capacity) % Capacity;
@@ -103,6 +105,7 @@ internal sealed class PeriodDetector
     }
 
     /// <summary>Largest relative difference between states p steps apart in the window; stops early once above <paramref name="limit"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double Deviation(int p, double limit)
     {
         var worst = 0.0;

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
 using MathNet.Numerics.LinearAlgebra;
 
 namespace Sweeps.Core.Analysis;
@@ -25,6 +26,7 @@ internal static class SmallMatrix
     }
 
     /// <summary>ln|det m| by Gaussian elimination with partial pivoting; destroys <paramref name="m"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public static double LogAbsDeterminant(Span<double> m, int n)
     {
         var sum = 0.0;

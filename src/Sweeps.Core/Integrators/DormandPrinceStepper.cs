@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 namespace Sweeps.Core.Integrators;
 
 /// <summary>
@@ -55,6 +56,7 @@ public sealed class DormandPrinceStepper : Stepper
         Rejected = 0;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public override bool Advance(double[] y, ref double t, double limit)
     {
         var n = y.Length;
@@ -118,6 +120,7 @@ public sealed class DormandPrinceStepper : Stepper
         }
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Stages(double[] y, double t, double h)
     {
         var n = y.Length;

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using Sweeps.Core.Models;
 
 namespace Sweeps.Core.Integrators;
@@ -39,6 +40,7 @@ public sealed class OdeSystem
     /// <summary>Number of right-hand-side evaluations since construction (for budgets and benchmarks).</summary>
     public long Evaluations { get; private set; }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Derivative(double t, double[] y, double[] dy)
     {
         var n = StateDimension;

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 namespace Sweeps.Core.Integrators;
 
 /// <summary>
@@ -20,6 +21,7 @@ public sealed class Rk4Stepper : FixedStepper
         stage = new double[system.Dimension];
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     protected override void TakeStep(double[] y, double t, double h, double[] k1)
     {
         var n = y.Length;

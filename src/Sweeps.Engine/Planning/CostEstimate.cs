@@ -7,7 +7,7 @@ namespace Sweeps.Engine.Planning;
 
 /// <summary>
 /// Estimates the compute cost of a sweep by timing the analysis of a few points spread evenly over
-/// the grid (the first run of each is discarded as JIT warm-up). Cost per point varies across a grid
+/// the grid, after a warm-up, averaging the middle half of the timings. Cost per point varies across a grid
 /// (divergent points stop early, chaotic ones do not), so this is a guide, not a promise.
 /// </summary>
 public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, double TotalCpuSeconds)
@@ -20,17 +20,35 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         var count = (int)Math.Min(samples, points);
         var initial = spec.Initial.ToArray();
         var parameters = spec.Parameters.ToArray();
-        spec.Grid.Apply(0, initial, parameters);
-        analyzer.Analyze(initial, parameters);
-        var clock = Stopwatch.StartNew();
-        for (var i = 0; i < count; i++)
+        var baseInitial = spec.Initial.ToArray();
+        var baseParameters = spec.Parameters.ToArray();
+        void Prepare(long index)
         {
-            var index = count == 1 ? 0 : (long)((double)i * (points - 1) / (count - 1));
+            baseInitial.CopyTo(initial, 0);
+            baseParameters.CopyTo(parameters, 0);
             spec.Grid.Apply(index, initial, parameters);
+        }
+
+        // Warm-up: the first analyses run while the JIT is still compiling and optimising.
+        for (var i = 0; i < 3; i++)
+        {
+            Prepare(0);
             analyzer.Analyze(initial, parameters);
         }
 
-        var perPoint = clock.Elapsed.TotalSeconds / Math.Max(count, 1);
+        var times = new double[count];
+        for (var i = 0; i < count; i++)
+        {
+            Prepare(count == 1 ? 0 : (long)((double)i * (points - 1) / (count - 1)));
+            var clock = Stopwatch.StartNew();
+            analyzer.Analyze(initial, parameters);
+            times[i] = clock.Elapsed.TotalSeconds;
+        }
+
+        // The mean of the middle half: robust to a late JIT pause, still sensitive to expensive regions.
+        Array.Sort(times);
+        var middle = times.Skip(count / 4).Take(Math.Max(1, count - (2 * (count / 4)))).ToArray();
+        var perPoint = middle.Average();
         return new CostEstimate(count, perPoint, perPoint * points);
     }
 }
