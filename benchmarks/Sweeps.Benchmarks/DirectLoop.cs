@@ -2,6 +2,7 @@ using System.Diagnostics;
 using Sweeps.Core.Analysis;
 using Sweeps.Engine.Config;
 using Sweeps.Engine.Probing;
+using Sweeps.Engine.Specs;
 
 namespace Sweeps.Benchmarks;
 
@@ -21,18 +22,13 @@ internal static class DirectLoop
         var threads = Enumerable.Range(0, workers).Select(w => new Thread(() =>
         {
             var analyzer = AnalyzerFactory.Create(spec, model);
-            var baseInitial = spec.Initial.ToArray();
-            var baseParameters = spec.Parameters.ToArray();
-            var initial = new double[baseInitial.Length];
-            var parameters = new double[baseParameters.Length];
+            var source = new PointSource(spec);
             var (first, last) = (points * w / workers, points * (w + 1) / workers);
             var sum = 0.0;
             for (var point = first; point < last; point++)
             {
-                baseInitial.CopyTo(initial, 0);
-                baseParameters.CopyTo(parameters, 0);
-                spec.Grid.Apply(point, initial, parameters);
-                var result = analyzer.Analyze(initial, parameters);
+                source.Fill(point);
+                var result = analyzer.Analyze(source.Initial, source.Parameters);
                 sum += result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
             }
 

@@ -45,6 +45,9 @@ public sealed class FlowAnalyzer : IPointAnalyzer
     private readonly double[] times;
     private readonly PeriodDetector detector;
 
+    // The starting tangent frame is the same for every point: built once, copied per point.
+    private readonly double[] frame;
+
     public FlowAnalyzer(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section)
     {
         if (model.Kind != ModelKind.Flow)
@@ -77,6 +80,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         firstHalf = new double[Math.Max(vectors, 1)];
         times = new double[2 * settings.MaxPeriod];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
+        frame = TangentFrame.Initial(n, vectors);
     }
 
     public bool Forced => forcingPeriod > 0;
@@ -134,7 +138,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
     private PointResult Measure(double t, long steps, double level)
     {
         Array.Copy(state, augmented, n);
-        TangentFrame.Initial(n, vectors).CopyTo(augmented, n);
+        frame.CopyTo(augmented, n);
         var start = t;
         var end = start + settings.Measure;
         var half = start + (settings.Measure / 2.0);

@@ -27,6 +27,9 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] sums;
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
+
+    // The starting tangent frame is the same for every point: built once, copied per point.
+    private readonly double[] frame;
     private readonly double[] series;
 
     public MapAnalyzer(Model model, AnalysisSettings settings)
@@ -56,6 +59,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         sums = new double[Math.Max(vectors, 1)];
         firstHalf = new double[Math.Max(vectors, 1)];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
+        frame = TangentFrame.Initial(n, vectors);
         series = settings.Indicators ? new double[(int)Math.Min(settings.Measure, IndicatorWindow)] : [];
     }
 
@@ -217,7 +221,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         Array.Fill(products, 1.0);
         Array.Clear(sums);
         Array.Clear(firstHalf);
-        TangentFrame.Initial(n, vectors).CopyTo(tangent, 0);
+        frame.CopyTo(tangent, 0);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]

@@ -38,30 +38,12 @@ public static class ChunkRunner
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators);
-        var initial = new double[spec.Initial.Count];
-        var parameters = new double[spec.Parameters.Count];
-        var axisValues = new double[spec.Grid.Axes.Count];
+        var source = new Specs.PointSource(spec);
         var pending = 0L;
         for (var point = first; point < last; point++)
         {
-            for (var i = 0; i < initial.Length; i++)
-            {
-                initial[i] = spec.Initial[i];
-            }
-
-            for (var i = 0; i < parameters.Length; i++)
-            {
-                parameters[i] = spec.Parameters[i];
-            }
-
-            spec.Grid.Apply(point, initial, parameters);
-            for (var a = 0; a < axisValues.Length; a++)
-            {
-                var axis = spec.Grid.Axes[a];
-                axisValues[a] = (axis.Target == Specs.AxisTarget.Parameter ? parameters : initial)[axis.Slot];
-            }
-
-            columns.Add(point, axisValues, Analyze(analyzer, initial, parameters));
+            source.Fill(point);
+            columns.Add(point, source.AxisValues, Analyze(analyzer, source.Initial, source.Parameters));
             if (++pending == ProgressEvery)
             {
                 token.ThrowIfCancellationRequested();

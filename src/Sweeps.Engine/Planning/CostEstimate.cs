@@ -18,30 +18,21 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         var analyzer = AnalyzerFactory.Create(spec, model);
         var points = spec.Grid.PointCount;
         var count = (int)Math.Min(samples, points);
-        var initial = spec.Initial.ToArray();
-        var parameters = spec.Parameters.ToArray();
-        var baseInitial = spec.Initial.ToArray();
-        var baseParameters = spec.Parameters.ToArray();
-        void Prepare(long index)
-        {
-            baseInitial.CopyTo(initial, 0);
-            baseParameters.CopyTo(parameters, 0);
-            spec.Grid.Apply(index, initial, parameters);
-        }
+        var source = new PointSource(spec);
 
         // Warm-up: the first analyses run while the JIT is still compiling and optimising.
         for (var i = 0; i < 3; i++)
         {
-            Prepare(0);
-            analyzer.Analyze(initial, parameters);
+            source.Fill(0);
+            analyzer.Analyze(source.Initial, source.Parameters);
         }
 
         var times = new double[count];
         for (var i = 0; i < count; i++)
         {
-            Prepare(count == 1 ? 0 : (long)((double)i * (points - 1) / (count - 1)));
+            source.Fill(count == 1 ? 0 : (long)((double)i * (points - 1) / (count - 1)));
             var clock = Stopwatch.StartNew();
-            analyzer.Analyze(initial, parameters);
+            analyzer.Analyze(source.Initial, source.Parameters);
             times[i] = clock.Elapsed.TotalSeconds;
         }
 
