@@ -44,8 +44,15 @@ public static class MapRenderer
     internal static Color CellColor(RunTable table, int row, ColorMode mode) => mode switch
     {
         ColorMode.Period => Palette.ForPeriod(table.Period[row]),
+        ColorMode.Attractor => Palette.ForAttractor(AttractorLabel(table, row)),
         _ => Palette.ForRegime(table.Regime[row]),
     };
+
+    private static int AttractorLabel(RunTable table, int row) =>
+        (table.Attractors ?? throw new InvalidOperationException("attractor labels were not read")).Label[row];
+
+    /// <summary>The strip colouring of a bifurcation diagram: regimes unless periods or attractors were asked for.</summary>
+    private static ColorMode StripMode(ColorMode mode) => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
 
     private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode)
     {
@@ -154,23 +161,26 @@ public static class MapRenderer
         strip.Erase(ToSkia(Palette.Unknown));
         for (var k = 0; k < plane.Rows.Count; k++)
         {
-            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], mode == ColorMode.Period ? ColorMode.Period : ColorMode.Regime)));
+            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], StripMode(mode))));
         }
 
         var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, stripLow, stripHigh));
         stripImage.AntiAlias = false;
-        AddLegend(plot, table, plane.Rows, mode == ColorMode.Period ? ColorMode.Period : ColorMode.Regime);
+        AddLegend(plot, table, plane.Rows, StripMode(mode));
         plot.Axes.SetLimits(x0, x1, stripLow, high);
-        Label(plot, x, $"{variable} (samples; strip: {(mode == ColorMode.Period ? "period" : "regime")})");
+        Label(plot, x, $"{variable} (samples; strip: {Describe(StripMode(mode))})");
     }
 
     private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode)
     {
-        var items = mode == ColorMode.Period
-            ? rows.Select(r => Math.Min(table.Period[r], Palette.PeriodColors.Length + 1)).Distinct().Order()
-                .Select(p => (p == 0 ? "none" : p > Palette.PeriodColors.Length ? $"> {Palette.PeriodColors.Length}" : $"period {p}", Palette.ForPeriod(p)))
-            : Engine.Runs.RegimeOrder.Sort(rows.Select(r => table.Regime[r]).Distinct())
-                .Select(regime => (regime, Palette.ForRegime(regime)));
+        var items = mode switch
+        {
+            ColorMode.Period => rows.Select(r => Math.Min(table.Period[r], Palette.PeriodColors.Length + 1)).Distinct().Order()
+                .Select(p => (p == 0 ? "none" : p > Palette.PeriodColors.Length ? $"> {Palette.PeriodColors.Length}" : $"period {p}", Palette.ForPeriod(p))),
+            ColorMode.Attractor => AttractorLegend(table, rows),
+            _ => Engine.Runs.RegimeOrder.Sort(rows.Select(r => table.Regime[r]).Distinct())
+                .Select(regime => (regime, Palette.ForRegime(regime))),
+        };
         foreach (var (label, color) in items)
         {
             plot.Legend.ManualItems.Add(new LegendItem { LabelText = label, FillColor = color, LineWidth = 0, MarkerSize = 0 });
@@ -178,6 +188,31 @@ public static class MapRenderer
 
         plot.ShowLegend(Edge.Right);
         plot.Legend.FontSize = 13;
+    }
+
+    /// <summary>One entry per attractor label on the plane (those beyond the palette share one): its number, class and where it sits.</summary>
+    private static IEnumerable<(string, Color)> AttractorLegend(RunTable table, IReadOnlyList<int> rows)
+    {
+        var labels = table.Attractors!;
+        var shown = Palette.AttractorColors.Length;
+        foreach (var label in rows.Select(r => labels.Label[r]).Select(l => l >= shown ? shown : l).Distinct().Order())
+        {
+            if (label < 0)
+            {
+                yield return (label == Engine.Runs.AttractorLabels.Missing ? "not computed" : "not catalogued", Palette.ForAttractor(label));
+            }
+            else if (label == shown)
+            {
+                yield return ($"{shown + 1} and beyond", Palette.ForAttractor(label));
+            }
+            else
+            {
+                var known = labels.Known[label];
+                var period = known.Period > 1 ? $" {known.Period}" : "";
+                var at = known.Regime is Core.Analysis.Regime.Divergent ? "" : $" near {known.State[0].ToString("g3", System.Globalization.CultureInfo.InvariantCulture)}";
+                yield return ($"{label + 1}: {Core.Analysis.RegimeNames.ToText(known.Regime)}{period}{at}", Palette.ForAttractor(label));
+            }
+        }
     }
 
     private static void Label(Plot plot, AxisScale x, string y)
@@ -216,6 +251,7 @@ public static class MapRenderer
     {
         ColorMode.Period => "period",
         ColorMode.Lyapunov => "largest Lyapunov exponent",
+        ColorMode.Attractor => "attractor",
         _ => "regime",
     };
 

@@ -34,6 +34,17 @@ public static class Palette
         _ => Unknown,
     };
 
+    /// <summary>Attractors 1 … <see cref="AttractorColors"/>.Length get their own colour; further ones share <see cref="LongerPeriod"/>.</summary>
+    public static readonly Color[] AttractorColors =
+    [
+        .. PeriodColors,
+        Color.FromHex("#2E8B3E"), Color.FromHex("#E06A1B"), Color.FromHex("#4A4A9C"), Color.FromHex("#9DBF5A"),
+    ];
+
+    /// <summary>Label 0, 1, … as given by the run's attractor catalog; negative labels (beyond the catalog, or missing) are grey.</summary>
+    public static Color ForAttractor(int label) =>
+        label < 0 ? NoPeriod : label < AttractorColors.Length ? AttractorColors[label] : LongerPeriod;
+
     public static Color ForPeriod(int period) =>
         period <= 0 ? NoPeriod : period <= PeriodColors.Length ? PeriodColors[period - 1] : LongerPeriod;
 

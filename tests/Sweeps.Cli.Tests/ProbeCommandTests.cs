@@ -32,7 +32,7 @@ public sealed class ProbeCommandTests
         string[] keys =
         [
             "kind", "parameters", "initial", "regime", "period", "period_time", "cycle", "lyapunov", "lyapunov_error",
-            "lyapunov_sum", "mean_log_det", "final_state", "diverged_at", "reason", "indicators", "fixed_points", "notes",
+            "lyapunov_sum", "mean_log_det", "final_state", "diverged_at", "reason", "indicators", "fixed_points", "attractors", "notes",
         ];
         Assert.Equal(keys, json.RootElement.EnumerateObject().Select(p => p.Name));
         var point = json.RootElement.GetProperty("fixed_points")[1];
@@ -116,5 +116,48 @@ public sealed class ProbeCommandTests
         Assert.Equal(0, process.ExitCode);
         using var json = JsonDocument.Parse(output);
         Assert.Equal(3, json.RootElement.GetProperty("period").GetInt32());
+    }
+
+    // Exact: x' = a·x − x³ at a = 1.5 has the superstable fixed points ±√0.5 (f' = 3 − 2a = 0); the map is odd, so a
+    // lattice of starts symmetric about 0 sends half to each.
+    [Fact]
+    public void ProbeJson_ListsEveryAttractorOfTheStarts_WithTheirBasins()
+    {
+        var config = Path.Combine(Path.GetTempPath(), $"sweeps-probe-{Guid.NewGuid():N}.toml");
+        File.WriteAllText(config, """
+            [model]
+            kind = "map"
+            variables = ["x"]
+            parameters = ["a"]
+            [model.equations]
+            x = "a*x - x^3"
+            [parameters]
+            a = 1.5
+            [analysis]
+            transient = 500
+            measure = 500
+            max_period = 8
+            [starts]
+            x = { from = -1, to = 1, steps = 8 }
+            """);
+        try
+        {
+            var run = CliRun.Of("probe", config, "--json");
+            Assert.Equal(0, run.ExitCode);
+            using var json = JsonDocument.Parse(run.Output);
+            var attractors = json.RootElement.GetProperty("attractors").EnumerateArray().ToList();
+            Assert.Equal(2, attractors.Count);
+            Assert.All(attractors, a => Assert.Equal(0.5, a.GetProperty("basin_fraction").GetDouble()));
+            var states = attractors.Select(a => a.GetProperty("state")[0].GetDouble()).Order().ToArray();
+            Assert.InRange(states[0], -Math.Sqrt(0.5) - 1e-12, -Math.Sqrt(0.5) + 1e-12);
+            Assert.InRange(states[1], Math.Sqrt(0.5) - 1e-12, Math.Sqrt(0.5) + 1e-12);
+
+            // The orbit reported is that of the first start reaching the largest basin: start 0, x = −1.
+            Assert.Equal(-1, json.RootElement.GetProperty("initial").GetProperty("x").GetDouble());
+        }
+        finally
+        {
+            File.Delete(config);
+        }
     }
 }

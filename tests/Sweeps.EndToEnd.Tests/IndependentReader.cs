@@ -10,12 +10,13 @@ namespace Sweeps.EndToEnd.Tests;
 /// </summary>
 internal sealed record IndependentReader(IReadOnlyList<string> Columns, IReadOnlyList<string> Types, IReadOnlyList<object?[]> Rows)
 {
-    public static IndependentReader ReadRun(string runDirectory)
+    /// <summary>Reads every part file of one table of a run: "parts" (one row per point) or "attractors".</summary>
+    public static IndependentReader ReadRun(string runDirectory, string table = "parts")
     {
         var rows = new List<object?[]>();
         string[] columns = [];
         string[] types = [];
-        foreach (var file in Directory.GetFiles(Path.Combine(runDirectory, "parts"), "*.parquet").Order(StringComparer.Ordinal))
+        foreach (var file in Directory.GetFiles(Path.Combine(runDirectory, table), "*.parquet").Order(StringComparer.Ordinal))
         {
             using var reader = new ParquetFileReader(file);
             var schema = reader.FileMetaData.Schema;

@@ -62,12 +62,12 @@ public sealed class RunTests
         var data = IndependentReader.ReadRun(Path.Combine(temp.Path, "out"));
         Assert.Equal(
             [
-                "point", "a", "x", "regime", "period", "period_time", "lyapunov_1", "lyapunov_2", "lyapunov_error_1", "lyapunov_error_2",
+                "point", "a", "x", "regime", "period", "period_time", "attractors", "lyapunov_1", "lyapunov_2", "lyapunov_error_1", "lyapunov_error_2",
                 "final_x", "final_y", "reason", "samples.list.element",
             ],
             data.Columns);
         Assert.Equal(
-            ["Int64", "Double", "Double", "ByteArray", "Int32", "Double", "Double", "Double", "Double", "Double", "Double", "Double", "ByteArray", "Double"],
+            ["Int64", "Double", "Double", "ByteArray", "Int32", "Double", "Int32", "Double", "Double", "Double", "Double", "Double", "Double", "ByteArray", "Double"],
             data.Types);
         Assert.Equal(480, data.Rows.Count);
         Assert.Equal(Enumerable.Range(0, 480).Select(i => (long)i), data.Rows.Select(r => (long)r[0]!).Order());
@@ -84,15 +84,15 @@ public sealed class RunTests
         // Exact: det J = −b, so every bounded orbit's exponents sum to ln 0.3.
         foreach (var row in data.Rows.Where(r => (string)r[3]! is "chaotic" or "periodic" or "fixed-point"))
         {
-            Assert.Equal(Math.Log(0.3), (double)row[6]! + (double)row[7]!, 9);
+            Assert.Equal(Math.Log(0.3), (double)row[7]! + (double)row[8]!, 9);
         }
 
         var regimes = data.Rows.Select(r => (string)r[3]!).ToHashSet();
         Assert.Subset(new HashSet<string> { "fixed-point", "periodic", "quasi-periodic", "chaotic", "hyperchaotic", "divergent", "unresolved" }, regimes);
         Assert.Contains("chaotic", regimes);
         Assert.Contains("divergent", regimes);
-        Assert.All(data.Rows.Where(r => (string)r[3]! == "divergent"), r => Assert.Empty((double[])r[13]!));
-        Assert.All(data.Rows.Where(r => (string)r[3]! == "chaotic"), r => Assert.Equal(16, ((double[])r[13]!).Length));
+        Assert.All(data.Rows.Where(r => (string)r[3]! == "divergent"), r => Assert.Empty((double[])r[14]!));
+        Assert.All(data.Rows.Where(r => (string)r[3]! == "chaotic"), r => Assert.Equal(16, ((double[])r[14]!).Length));
 
         var metadata = IndependentReader.Metadata(Path.Combine(temp.Path, "out", "parts", "part-000000.parquet"));
         Assert.Matches("^[0-9a-f]{64}$", metadata["sweeps.spec_hash"]);
@@ -169,7 +169,8 @@ public sealed class RunTests
     public async Task Run_StopsCleanlyOnInterrupt_KeepingFinishedPartsOnly()
     {
         using var temp = new TempFolder();
-        var config = temp.Write("stock.toml", LongConfig);
+        // Ten times the transient: the run cannot finish before the interrupt arrives, even on a loaded machine.
+        var config = temp.Write("stock.toml", LongConfig.Replace("transient = 2000", "transient = 20000", StringComparison.Ordinal));
         var parts = Path.Combine(temp.Path, "stopped", "parts");
         using var process = SweepsProcess.Start(temp.Path, "run", config, "--out", "stopped", "--workers", "2");
         var error = process.StandardError.ReadToEndAsync();
@@ -192,6 +193,9 @@ public sealed class RunTests
         var kept = Directory.GetFiles(parts, "*.parquet");
         Assert.InRange(kept.Length, 2, 59);
         Assert.All(kept, part => Assert.Equal(400, IndependentReader.ReadRunFile(part)));
+
+        // Every finished chunk has its attractor part too (it is written first).
+        Assert.All(kept, part => Assert.True(File.Exists(Path.Combine(temp.Path, "stopped", "attractors", Path.GetFileName(part)))));
     }
 
     [Fact]

@@ -75,6 +75,51 @@ public sealed class MapRendererTests : IDisposable
         Assert.Equal(121, strip);
     }
 
+    // Exact: the odd cubic map x' = a·x − x³ has the stable fixed points ±√(a − 1) for 1 < a < 2, and orbits from
+    // (0, 1] stay positive (from [−1, 0) negative). A basin picture over (a, x0) therefore shows two attractors per
+    // value of a, and the same attractor keeps its colour in every cell that reaches it.
+    [Fact]
+    public async Task AttractorMap_GivesEachAttractorOneColour_AcrossTheGrid()
+    {
+        const string config = """
+            [model]
+            kind = "map"
+            variables = ["x"]
+            parameters = ["a"]
+            [model.equations]
+            x = "a*x - x^3"
+            [grid]
+            a = { values = [1.3, 1.5, 1.7] }
+            x = { from = -0.95, to = 0.95, steps = 20 }
+            [analysis]
+            transient = 2000
+            measure = 500
+            max_period = 8
+            """;
+        var run = await TestRuns.CreateAsync(folder, config, chunkSize: 7);
+        var table = await RunTable.ReadAsync(run, samples: false, attractors: true);
+        var labels = table.Attractors!;
+        Assert.Equal(6, labels.Known.Count);
+        for (var a = 0; a < 3; a++)
+        {
+            // Point order: a slowest; for each a the negative starts come first.
+            Assert.All(Enumerable.Range(0, 10), i => Assert.Equal(2 * a, labels.Label[(20 * a) + i]));
+            Assert.All(Enumerable.Range(10, 10), i => Assert.Equal((2 * a) + 1, labels.Label[(20 * a) + i]));
+        }
+
+        var plot = MapRenderer.Build(run, table, new MapRequest(ColorMode.Attractor, new Dictionary<string, double>()), "cubic");
+        using var image = Decode(plot.GetImageBytes(1000, 700, ImageFormat.Png));
+        // Listed axis values sit at their index: a = 1.3 at 0, 1.7 at 2.
+        AssertColor(image, plot.GetPixel(new Coordinates(0, -0.5)), Palette.ForAttractor(0));
+        AssertColor(image, plot.GetPixel(new Coordinates(0, 0.5)), Palette.ForAttractor(1));
+        AssertColor(image, plot.GetPixel(new Coordinates(2, -0.8)), Palette.ForAttractor(4));
+        AssertColor(image, plot.GetPixel(new Coordinates(2, 0.8)), Palette.ForAttractor(5));
+        Tolerance(Math.Sqrt(0.7), labels.Known[5].State[0]);
+    }
+
+    private static void Tolerance(double expected, double actual) =>
+        Assert.True(Math.Abs(expected - actual) <= 1e-9, $"expected {expected:R}, got {actual:R}");
+
     [Fact]
     public async Task Render_RefusesThreeFreeAxes_WithoutASlice()
     {

@@ -5,14 +5,14 @@ using Sweeps.Maps;
 
 namespace Sweeps.Cli.Commands;
 
-/// <summary><c>sweeps map RUN [--color regime|period|lyapunov] [-o FILE.png] [--slice NAME=VALUE]…</c>: draw a run.</summary>
+/// <summary><c>sweeps map RUN [--color regime|period|lyapunov|attractor] [-o FILE.png] [--slice NAME=VALUE]…</c>: draw a run.</summary>
 internal static class MapCommand
 {
     public static Command Create(CliContext cli)
     {
         var runArgument = new Argument<string>("RUN") { Description = "A run directory" };
-        var color = new Option<string>("--color") { Description = "What the colours show: regime, period or lyapunov", DefaultValueFactory = _ => "regime" };
-        color.AcceptOnlyFromAmong("regime", "period", "lyapunov");
+        var color = new Option<string>("--color") { Description = "What the colours show: regime, period, lyapunov or attractor (the same attractor keeps its colour across the grid)", DefaultValueFactory = _ => "regime" };
+        color.AcceptOnlyFromAmong("regime", "period", "lyapunov", "attractor");
         var output = new Option<string?>("-o", "--output") { Description = "PNG file to write (default: RUN/map-<color>.png)" };
         var slice = new Option<string[]>("--slice") { Description = "Fix an axis beyond the two drawn, e.g. --slice b=0.3 (repeatable)" };
         var width = new Option<int>("--width") { Description = "Image width in pixels", DefaultValueFactory = _ => 1000 };
@@ -31,6 +31,7 @@ internal static class MapCommand
             {
                 "period" => ColorMode.Period,
                 "lyapunov" => ColorMode.Lyapunov,
+                "attractor" => ColorMode.Attractor,
                 _ => ColorMode.Regime,
             };
             var (w, h) = (parse.GetValue(width), parse.GetValue(height));
@@ -41,7 +42,7 @@ internal static class MapCommand
 
             var request = new MapRequest(mode, MapSlices.Parse(parse.GetValue(slice) ?? []), w, h);
             var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
-            var table = await RunTable.ReadAsync(run, samples: true, token);
+            var table = await RunTable.ReadAsync(run, samples: true, attractors: mode == ColorMode.Attractor, token);
             byte[] png;
             try
             {

@@ -83,6 +83,23 @@ internal static class ProbeJson
             }
 
             json.WriteEndArray();
+            json.WriteStartArray("attractors");
+            foreach (var attractor in report.Attractors)
+            {
+                json.WriteStartObject();
+                json.WriteNumber("id", attractor.Id);
+                json.WriteString("regime", attractor.Result.Regime.ToText());
+                json.WriteNumber("period", attractor.Result.Period);
+                json.WriteNumber("basin_fraction", attractor.BasinFraction);
+                json.WriteNumber("start_count", attractor.Starts);
+                json.WriteNumber("first_start", attractor.FirstStart);
+                JsonNumbers.WriteArray(json, "state", attractor.Signature.State);
+                JsonNumbers.WriteArray(json, "lyapunov", attractor.Result.Lyapunov);
+                json.WriteString("reason", attractor.Result.Reason);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndArray();
             json.WriteStartArray("notes");
             foreach (var note in report.Notes)
             {

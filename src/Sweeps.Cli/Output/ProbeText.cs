@@ -46,6 +46,11 @@ internal static class ProbeText
         }
 
         Line(output, "final state", Numbers.Assignments(model.Variables, result.FinalState));
+        if (report.Attractors.Sum(a => a.Starts) > 1)
+        {
+            WriteAttractors(output, report);
+        }
+
         output.WriteLine();
         var heading = model.Kind == ModelKind.Map ? "fixed points" : "equilibria";
         output.WriteLine(report.FixedPoints.Count == 0 ? $"{heading}: none found" : $"{heading}: {report.FixedPoints.Count}");
@@ -54,6 +59,22 @@ internal static class ProbeText
             var eigenvalues = string.Join(", ", point.Eigenvalues.Select(Numbers.Format));
             output.WriteLine($"  {Numbers.Assignments(model.Variables, point.State)}");
             output.WriteLine($"      {FixedPointClassifier.Describe(point.Kind, model.Kind)}; eigenvalues {eigenvalues}");
+        }
+    }
+
+    /// <summary>With several starts: one line per distinct outcome, largest basin first (the one reported above).</summary>
+    private static void WriteAttractors(TextWriter output, ProbeReport report)
+    {
+        var starts = report.Attractors.Sum(a => a.Starts);
+        output.WriteLine();
+        output.WriteLine($"from {starts} starts: {report.Attractors.Count} distinct outcome{(report.Attractors.Count == 1 ? "" : "s")}");
+        foreach (var attractor in report.Attractors)
+        {
+            var result = attractor.Result;
+            var period = result.Period > 0 ? $" (period {result.Period})" : "";
+            var exponent = result.Lyapunov.Length > 0 ? $"; λ1 = {Numbers.Format(result.Lyapunov[0])}" : "";
+            output.WriteLine($"  #{attractor.Id}  {result.Regime.ToText()}{period}: {attractor.Starts} of {starts} starts ({Numbers.Format(attractor.BasinFraction, "P1")}){exponent}");
+            output.WriteLine($"      at {Numbers.Assignments(report.Model.Variables, attractor.Signature.State)}");
         }
     }
 

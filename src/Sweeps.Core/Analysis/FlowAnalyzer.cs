@@ -269,7 +269,8 @@ public sealed class FlowAnalyzer : IPointAnalyzer
             null,
             verdict.Reason,
             Samples(),
-            periodic ? PeriodTime(period) : double.NaN);
+            periodic ? PeriodTime(period) : double.NaN,
+            Box: atRest ? StateBox.Point(state) : detector.Bounds(state));
     }
 
     /// <summary>The cycle's duration, averaged over as many whole cycles as the recorded returns hold.</summary>

@@ -177,7 +177,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
             null,
             verdict.Reason,
             detector.Last(settings.Samples),
-            Indicators: indicators);
+            Indicators: indicators,
+            Box: detector.Bounds(x));
     }
 
     private (double[] Exponents, double[] Errors) Exponents()

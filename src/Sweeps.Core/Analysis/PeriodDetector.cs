@@ -69,6 +69,29 @@ internal sealed class PeriodDetector
         return states;
     }
 
+    /// <summary>The smallest box holding every stored state, or the point <paramref name="fallback"/> when none is stored.</summary>
+    public StateBox Bounds(ReadOnlySpan<double> fallback)
+    {
+        if (count == 0)
+        {
+            return StateBox.Point(fallback);
+        }
+
+        var low = State(0).ToArray();
+        var high = low.ToArray();
+        for (var i = 1; i < count; i++)
+        {
+            var state = State(i);
+            for (var j = 0; j < n; j++)
+            {
+                low[j] = Math.Min(low[j], state[j]);
+                high[j] = Math.Max(high[j], state[j]);
+            }
+        }
+
+        return new StateBox(low, high);
+    }
+
     /// <summary>The period, or 0 when none up to the maximum fits the window.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public int FindPeriod()

@@ -16,6 +16,7 @@ namespace Sweeps.Core.Analysis;
 /// <param name="Samples">The last states of the orbit (maps) or section points (flows), row-major (Samples × n).</param>
 /// <param name="PeriodTime">Flows: the duration of the cycle in time units; NaN for maps and when no cycle was found.</param>
 /// <param name="Indicators">Second-opinion indicators, when asked for (maps).</param>
+/// <param name="Box">The smallest box holding the last recorded states (the period test's window: orbit points for maps, section points for flows); the final state alone when none were recorded. Null for stopped points.</param>
 public sealed record PointResult(
     Regime Regime,
     int Period,
@@ -28,7 +29,8 @@ public sealed record PointResult(
     string? Reason,
     double[] Samples,
     double PeriodTime = double.NaN,
-    Indicators.IndicatorValues? Indicators = null)
+    Indicators.IndicatorValues? Indicators = null,
+    StateBox? Box = null)
 {
     /// <summary>A point whose analysis stopped early (divergent or unresolved): exponents NaN, no cycle, no samples.</summary>
     public static PointResult Stopped(Regime regime, int exponents, double[] state, long? divergedAt, string reason)

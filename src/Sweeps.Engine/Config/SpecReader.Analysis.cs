@@ -21,7 +21,7 @@ public static partial class SpecReader
             return defaults;
         }
 
-        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check", "step_check", "indicators");
+        reader.OnlyKeys(table, "transient", "measure", "lyapunov", "max_period", "tolerance", "escape", "zero_band", "samples", "transient_check", "step_check", "indicators", "starts");
         var maxPeriod = (int)(reader.Integer(table, "max_period", 1, 4096) ?? defaults.MaxPeriod);
         var measure = reader.Integer(table, "measure", 2, 10_000_000_000) ?? defaults.Measure;
         if (kind == ModelKind.Map && measure < 2 * maxPeriod && table.Find("measure") is { } entry)

@@ -28,7 +28,7 @@ public static partial class SpecReader
             }
 
             var target = parameter >= 0 ? AxisTarget.Parameter : AxisTarget.Variable;
-            if (ReadAxis(reader, entry, target, parameter >= 0 ? parameter : variable) is { } axis)
+            if (ReadAxis(reader, entry, target, parameter >= 0 ? parameter : variable, "grid") is { } axis)
             {
                 axes.Add(axis);
             }
@@ -45,9 +45,9 @@ public static partial class SpecReader
         return grid;
     }
 
-    private static GridAxis? ReadAxis(ConfigReader reader, ConfigEntry entry, AxisTarget target, int slot)
+    private static GridAxis? ReadAxis(ConfigReader reader, ConfigEntry entry, AxisTarget target, int slot, string section)
     {
-        var name = $"grid.{entry.Key}";
+        var name = $"{section}.{entry.Key}";
         if (entry.Value is not ConfigTable axis)
         {
             reader.Problem(entry.Value.Position, $"{name}: must be a table such as {{ from = 1, to = 2, steps = 100 }} or {{ values = [1, 2] }}");

@@ -9,7 +9,7 @@ namespace Sweeps.Engine.Config;
 /// </summary>
 public static partial class SpecReader
 {
-    private static readonly string[] Sections = ["model", "initial", "parameters", "grid", "analysis", "integrator", "section", "output"];
+    private static readonly string[] Sections = ["model", "initial", "parameters", "grid", "analysis", "integrator", "section", "starts", "output"];
 
     public static SweepSpec Load(string path)
     {
@@ -39,18 +39,21 @@ public static partial class SpecReader
         var model = ReadModel(reader, root);
         var grid = model is null ? null : ReadGrid(reader, root, model);
         var swept = SweptNames(root);
-        var initial = model is null ? null : ReadValues(reader, root, "initial", model.Variables, grid, swept, AxisTarget.Variable);
+        // Variables drawn from [starts] need no [initial] value (one given there is simply not used).
+        var drawn = root.Find("starts")?.Value is ConfigTable startTable ? startTable.Entries.Select(e => e.Key).ToHashSet(StringComparer.Ordinal) : [];
+        var initial = model is null ? null : ReadValues(reader, root, "initial", model.Variables, grid, swept, AxisTarget.Variable, drawn);
         var parameters = model is null ? null : ReadValues(reader, root, "parameters", model.Parameters, grid, swept, AxisTarget.Parameter);
         var analysis = ReadAnalysis(reader, root, model?.Kind ?? ModelKind.Map);
         var integrator = ReadIntegrator(reader, root);
         var section = ReadSection(reader, root, model);
+        var starts = model is null || grid is null ? null : ReadStarts(reader, root, model, grid);
         var (output, chunkSize) = ReadOutput(reader, root);
         if (reader.Problems.Count > 0 || model is null || grid is null || initial is null || parameters is null)
         {
             throw new ConfigException(reader.Problems);
         }
 
-        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output, chunkSize, section);
+        return new SweepSpec(file, model, initial, parameters, grid, analysis, integrator, output, chunkSize, section, starts);
     }
 
     private static (string? Dir, long? ChunkSize) ReadOutput(ConfigReader reader, ConfigTable root)
@@ -81,7 +84,7 @@ public static partial class SpecReader
         root.Find("grid")?.Value is ConfigTable grid ? grid.Entries.Select(e => e.Key).ToHashSet(StringComparer.Ordinal) : [];
 
     private static double[]? ReadValues(
-        ConfigReader reader, ConfigTable root, string section, IReadOnlyList<string> names, Grid? grid, HashSet<string> swept, AxisTarget target)
+        ConfigReader reader, ConfigTable root, string section, IReadOnlyList<string> names, Grid? grid, HashSet<string> swept, AxisTarget target, HashSet<string>? drawn = null)
     {
         var table = reader.Table(root, section, required: false) ?? new ConfigTable(section, new SourcePosition(1, 1));
         var values = new double[names.Count];
@@ -122,7 +125,7 @@ public static partial class SpecReader
             {
                 values[i] = axis.ValueAt(0);
             }
-            else if (table.Find(names[i]) is null && !swept.Contains(names[i]))
+            else if (table.Find(names[i]) is null && !swept.Contains(names[i]) && drawn?.Contains(names[i]) != true)
             {
                 reader.Problem(table.Position, $"{section}: no value for '{names[i]}' (give one here or sweep it in [grid])");
             }

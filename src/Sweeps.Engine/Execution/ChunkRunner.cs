@@ -1,14 +1,17 @@
 using System.Runtime.CompilerServices;
 using Sweeps.Core.Analysis;
+using Sweeps.Core.Attractors;
 using Sweeps.Engine.Runs;
 
 namespace Sweeps.Engine.Execution;
 
 /// <summary>
-/// Computes one chunk — a contiguous range of point indices — and writes its part file. A point's
+/// Computes one chunk — a contiguous range of point indices — and writes its part files. A point's
 /// result depends only on the spec and its index, never on the chunk, the worker or the order, which
 /// is what makes runs resumable and bit-for-bit reproducible. A point whose analysis throws is
-/// recorded as unresolved with the reason; it never fails the chunk.
+/// recorded as unresolved with the reason; it never fails the chunk. With several starts per point,
+/// every start is analysed, the outcomes are grouped into distinct attractors, and the point's row
+/// describes the one with the largest basin.
 /// </summary>
 public static class ChunkRunner
 {
@@ -24,26 +27,54 @@ public static class ChunkRunner
             return 0;
         }
 
-        var columns = Compute(context, chunk, progress, token);
+        var (columns, attractors) = Compute(context, chunk, progress, token);
+
+        // The attractor part first: a chunk whose main part exists is complete in both tables.
+        await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
         await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
         return columns.Count;
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static ChunkColumns Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
+    private static (ChunkColumns Points, AttractorColumns Attractors) Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
     {
         var spec = context.Spec;
         var manifest = context.Run.Manifest;
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
-        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators);
+        var dimension = spec.Model.Variables.Count;
+        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators);
+        var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
+        var starts = spec.Starts is { } startSpec ? new Specs.StartSource(startSpec, dimension) : null;
+        var outcomes = new PointResult[spec.StartCount];
         var pending = 0L;
         for (var point = first; point < last; point++)
         {
             source.Fill(point);
-            columns.Add(point, source.AxisValues, Analyze(analyzer, source.Initial, source.Parameters));
+            IReadOnlyList<FoundAttractor> found;
+            if (starts is null)
+            {
+                found = AttractorGrouping.Single(Analyze(analyzer, source.Initial, source.Parameters), spec.Analysis);
+            }
+            else
+            {
+                starts.Fill(point, source.Initial);
+                for (var k = 0; k < outcomes.Length; k++)
+                {
+                    outcomes[k] = Analyze(analyzer, starts.States[k], source.Parameters);
+                }
+
+                found = AttractorGrouping.Group(outcomes, spec.Analysis);
+            }
+
+            columns.Add(point, source.AxisValues, found[0].Result, found.Count);
+            foreach (var attractor in found)
+            {
+                attractors.Add(point, attractor);
+            }
+
             if (++pending == ProgressEvery)
             {
                 token.ThrowIfCancellationRequested();
@@ -53,10 +84,11 @@ public static class ChunkRunner
         }
 
         progress?.Invoke(pending);
-        return columns;
+        return (columns, attractors);
     }
 
-    private static PointResult Analyze(IPointAnalyzer analyzer, double[] initial, double[] parameters)
+    /// <summary>Analyses one start; an analysis that throws becomes an unresolved result with the reason.</summary>
+    public static PointResult Analyze(IPointAnalyzer analyzer, double[] initial, double[] parameters)
     {
         try
         {

@@ -18,6 +18,7 @@ public sealed class RunContext
         Spec = run.LoadSpec();
         Model = ModelFactory.Build(Spec);
         Schema = new PartSchema(Spec);
+        AttractorSchema = new AttractorSchema(Spec);
         Metadata = new Dictionary<string, string>
         {
             ["sweeps.spec_hash"] = run.Manifest.SpecHash,
@@ -34,6 +35,8 @@ public sealed class RunContext
     public Model Model { get; }
 
     public PartSchema Schema { get; }
+
+    public AttractorSchema AttractorSchema { get; }
 
     public IReadOnlyDictionary<string, string> Metadata { get; }
 }

@@ -16,6 +16,7 @@ internal sealed class ChunkColumns
         Regime = new string[capacity];
         Period = new int[capacity];
         PeriodTime = new double[capacity];
+        Attractors = new int[capacity];
         Lyapunov = Columns(dimension, capacity);
         LyapunovError = Columns(dimension, capacity);
         Final = Columns(dimension, capacity);
@@ -37,6 +38,8 @@ internal sealed class ChunkColumns
 
     public double[] PeriodTime { get; }
 
+    public int[] Attractors { get; }
+
     public double[][] Lyapunov { get; }
 
     public double[][] LyapunovError { get; }
@@ -55,9 +58,10 @@ internal sealed class ChunkColumns
 
     public List<int> SampleRepetitions { get; } = [];
 
-    public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result)
+    public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1)
     {
         var row = Count++;
+        Attractors[row] = attractors;
         Point[row] = point;
         for (var a = 0; a < Axis.Length; a++)
         {

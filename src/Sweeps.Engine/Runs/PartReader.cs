@@ -27,6 +27,7 @@ internal static class PartReader
             regime.CopyTo(columns.Regime, offset);
             await Read(group, schema.Period, columns.Period.AsMemory(offset, count), token);
             await Read(group, schema.PeriodTime, columns.PeriodTime.AsMemory(offset, count), token);
+            await Read(group, schema.Attractors, columns.Attractors.AsMemory(offset, count), token);
             for (var i = 0; i < schema.Lyapunov.Count; i++)
             {
                 await Read(group, schema.Lyapunov[i], columns.Lyapunov[i].AsMemory(offset, count), token);

@@ -5,7 +5,7 @@ namespace Sweeps.Engine.Runs;
 
 /// <summary>
 /// The columns of a part file, in order: <c>point</c>, one column per grid axis, <c>regime</c>,
-/// <c>period</c>, <c>period_time</c> (flows; NaN for maps), <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
+/// <c>period</c>, <c>period_time</c> (flows; NaN for maps), <c>attractors</c> (distinct outcomes of the point's starts, escape included; 1 with one start), <c>lyapunov_1…n</c>, <c>lyapunov_error_1…n</c>, <c>final_&lt;variable&gt;</c>,
 /// (with indicators: <c>zero_one_k</c>, <c>permutation_entropy</c>, <c>lz_complexity</c>), <c>reason</c> and <c>samples</c> (the last states, row-major, as a list). Part of the output contract.
 /// </summary>
 public sealed class PartSchema
@@ -18,6 +18,7 @@ public sealed class PartSchema
         Regime = new DataField<string>("regime");
         Period = new DataField<int>("period");
         PeriodTime = new DataField<double>("period_time");
+        Attractors = new DataField<int>("attractors");
         Lyapunov = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_{i}")).ToArray();
         LyapunovError = Enumerable.Range(1, n).Select(i => new DataField<double>($"lyapunov_error_{i}")).ToArray();
         Final = spec.Model.Variables.Select(v => new DataField<double>($"final_{v}")).ToArray();
@@ -33,6 +34,7 @@ public sealed class PartSchema
                 .Append(Regime)
                 .Append(Period)
                 .Append(PeriodTime)
+                .Append(Attractors)
                 .Concat(Lyapunov)
                 .Concat(LyapunovError)
                 .Concat(Final)
@@ -43,7 +45,7 @@ public sealed class PartSchema
 
     /// <summary>Names a model may not use, because they would collide with a fixed column.</summary>
     public static bool Collides(string name) =>
-        name is "point" or "regime" or "period" or "period_time" or "reason" or "samples"
+        name is "point" or "regime" or "period" or "period_time" or "attractors" or "reason" or "samples"
         || name.StartsWith("lyapunov_", StringComparison.Ordinal)
         || name.StartsWith("final_", StringComparison.Ordinal);
 
@@ -58,6 +60,8 @@ public sealed class PartSchema
     public DataField<int> Period { get; }
 
     public DataField<double> PeriodTime { get; }
+
+    public DataField<int> Attractors { get; }
 
     public IReadOnlyList<DataField<double>> Lyapunov { get; }
 

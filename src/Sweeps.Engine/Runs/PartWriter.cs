@@ -10,7 +10,14 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 internal static class PartWriter
 {
-    public static async Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    public static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
+        WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+
+    public static Task WriteAsync(string path, AttractorSchema schema, AttractorColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
+        WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+
+    private static async Task WriteFileAsync(
+        string path, Parquet.Schema.ParquetSchema schema, IReadOnlyDictionary<string, string> metadata, Func<ParquetWriter, Task> write, CancellationToken token)
     {
         var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
         try
@@ -18,9 +25,9 @@ internal static class PartWriter
             await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
             {
                 var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
-                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, options, false, token);
+                await using var writer = await ParquetWriter.CreateAsync(schema, stream, options, false, token);
                 writer.CustomMetadata = metadata.ToDictionary();
-                await WriteRowGroupAsync(writer, schema, columns, token);
+                await write(writer);
             }
 
             // At-least-once delivery can run a chunk twice; the first complete file wins, and both are identical.
@@ -53,6 +60,7 @@ internal static class PartWriter
         await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
         await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
         await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
+        await group.WriteAsync(schema.Attractors, new ReadOnlyMemory<int>(columns.Attractors, 0, count), null, null, token);
         await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
         await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
         await WriteAll(group, schema.Final, columns.Final, count, token);
@@ -66,11 +74,38 @@ internal static class PartWriter
             token);
     }
 
+    public static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
+    {
+        using var group = writer.CreateRowGroup();
+        await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point.ToArray()), null, null, token);
+        await group.WriteAsync(schema.Id, new ReadOnlyMemory<int>(columns.Id.ToArray()), null, null, token);
+        await group.WriteAsync(schema.Regime, columns.Regime.ToArray());
+        await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period.ToArray()), null, null, token);
+        await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime.ToArray()), null, null, token);
+        await group.WriteAsync(schema.BasinFraction, new ReadOnlyMemory<double>(columns.BasinFraction.ToArray()), null, null, token);
+        await group.WriteAsync(schema.StartCount, new ReadOnlyMemory<int>(columns.StartCount.ToArray()), null, null, token);
+        await group.WriteAsync(schema.FirstStart, new ReadOnlyMemory<int>(columns.FirstStart.ToArray()), null, null, token);
+        await WriteLists(group, schema.Lyapunov, columns.Lyapunov, token);
+        await WriteLists(group, schema.LyapunovError, columns.LyapunovError, token);
+        await WriteLists(group, schema.State, columns.State, token);
+        await WriteLists(group, schema.Low, columns.Low, token);
+        await WriteLists(group, schema.High, columns.High, token);
+        await group.WriteAsync(schema.Reason, columns.Reason.ToArray()!);
+    }
+
     private static async Task WriteAll(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count, CancellationToken token)
     {
         for (var i = 0; i < fields.Count; i++)
         {
             await group.WriteAsync(fields[i], new ReadOnlyMemory<double>(values[i], 0, count), null, null, token);
+        }
+    }
+
+    private static async Task WriteLists(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, List<double>[] values, CancellationToken token)
+    {
+        for (var i = 0; i < fields.Count; i++)
+        {
+            await group.WriteAsync(fields[i], new ReadOnlyMemory<double>(values[i].ToArray()), null, null, token);
         }
     }
 }

@@ -5,8 +5,10 @@ using Sweeps.Engine.Specs;
 namespace Sweeps.Engine.Runs;
 
 /// <summary>
-/// A run on disk: <c>run.json</c> (the manifest), <c>config.toml</c> (a copy of the config as given)
-/// and <c>parts/part-NNNNNN.parquet</c>, one file per finished chunk. A part file appears only
+/// A run on disk: <c>run.json</c> (the manifest), <c>config.toml</c> (a copy of the config as given),
+/// <c>parts/part-NNNNNN.parquet</c>, one file per finished chunk, and beside each
+/// <c>attractors/part-NNNNNN.parquet</c>, the attractors found at its points (written first, so a
+/// finished chunk always has both). A part file appears only
 /// complete — it is written under a temporary name and renamed — so "the file exists" is what
 /// "the chunk is done" means, for resuming and for any number of workers.
 /// </summary>
@@ -30,11 +32,15 @@ public sealed class RunDirectory
 
     public string PartsPath => Path.Combine(FullPath, "parts");
 
+    public string AttractorPartsPath => Path.Combine(FullPath, "attractors");
+
     public string ConfigCopyPath => Path.Combine(FullPath, "config.toml");
 
     private string ManifestPath => Path.Combine(FullPath, "run.json");
 
     public string PartPath(long chunk) => Path.Combine(PartsPath, $"part-{chunk:D6}.parquet");
+
+    public string AttractorPartPath(long chunk) => Path.Combine(AttractorPartsPath, $"part-{chunk:D6}.parquet");
 
     public bool IsDone(long chunk) => File.Exists(PartPath(chunk));
 
@@ -117,6 +123,7 @@ public sealed class RunDirectory
         try
         {
             Directory.CreateDirectory(Path.Combine(path, "parts"));
+            Directory.CreateDirectory(Path.Combine(path, "attractors"));
             var manifest = new RunManifest(
                 RunManifest.CurrentFormat,
                 ProgramInfo.Version,
@@ -164,9 +171,12 @@ public sealed class RunDirectory
     /// <summary>Deletes temporary part files left by a process that was killed while writing them.</summary>
     private void RemoveAbandonedParts()
     {
-        foreach (var temporary in Directory.EnumerateFiles(PartsPath, "*.parquet.tmp-*"))
+        foreach (var folder in new[] { PartsPath, AttractorPartsPath })
         {
-            File.Delete(temporary);
+            foreach (var temporary in Directory.EnumerateFiles(folder, "*.parquet.tmp-*"))
+            {
+                File.Delete(temporary);
+            }
         }
     }
 

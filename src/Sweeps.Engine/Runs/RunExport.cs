@@ -46,7 +46,7 @@ public static class RunExport
         var schema = new PartSchema(spec);
         var header = new[] { "point" }
             .Concat(schema.Axes.Select(a => a.Name))
-            .Concat(["regime", "period", "period_time"])
+            .Concat(["regime", "period", "period_time", "attractors"])
             .Concat(schema.Lyapunov.Select(f => f.Name))
             .Concat(schema.LyapunovError.Select(f => f.Name))
             .Concat(schema.Final.Select(f => f.Name))
@@ -71,6 +71,7 @@ public static class RunExport
 
                 line.Append(',').Append(columns.Regime[row]).Append(',').Append(columns.Period[row].ToString(CultureInfo.InvariantCulture));
                 line.Append(',').Append(Number(columns.PeriodTime[row]));
+                line.Append(',').Append(columns.Attractors[row].ToString(CultureInfo.InvariantCulture));
                 foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final).Concat(columns.Indicators))
                 {
                     line.Append(',').Append(Number(column[row]));

@@ -22,7 +22,7 @@ public sealed record RunManifest(
     DateTimeOffset Created,
     DateTimeOffset? Finished)
 {
-    public const int CurrentFormat = 1;
+    public const int CurrentFormat = 2;
     public const string Running = "running";
     public const string Complete = "finished";
 }

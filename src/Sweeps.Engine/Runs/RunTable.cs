@@ -10,8 +10,9 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 public sealed class RunTable
 {
-    private RunTable(long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples)
+    private RunTable(long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples, AttractorLabels? attractors = null)
     {
+        Attractors = attractors;
         Point = point;
         Axes = axes;
         Regime = regime;
@@ -37,7 +38,13 @@ public sealed class RunTable
     /// <summary>Per row, the samples of the first variable (null unless requested).</summary>
     public double[][]? Samples { get; }
 
-    public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, CancellationToken token = default)
+    /// <summary>Per row, the grid-wide label of the point's attractor with the largest basin (null unless requested).</summary>
+    public AttractorLabels? Attractors { get; }
+
+    public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, CancellationToken token = default) =>
+        await ReadAsync(run, samples, attractors: false, token);
+
+    public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, bool attractors, CancellationToken token = default)
     {
         var axisNames = SpecFingerprintAxes(run);
         var points = new List<long>();
@@ -82,13 +89,14 @@ public sealed class RunTable
             Sorted(regimes),
             Sorted(periods),
             Sorted(lyapunov),
-            sampleRows is null ? null : Sorted(sampleRows));
+            sampleRows is null ? null : Sorted(sampleRows),
+            attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null);
     }
 
     private static IReadOnlyList<string> SpecFingerprintAxes(RunDirectory run) =>
         run.Manifest.Spec["grid"]!.AsArray().Select(a => a!["name"]!.GetValue<string>()).ToArray();
 
-    private static async Task<T[]> Read<T>(ParquetRowGroupReader group, DataField field, int rows, CancellationToken token)
+    internal static async Task<T[]> Read<T>(ParquetRowGroupReader group, DataField field, int rows, CancellationToken token)
         where T : struct
     {
         var values = new T[rows];

@@ -54,6 +54,17 @@ public static class SpecFingerprint
             ["value"] = (spec.Section ?? new SectionSettings()).Level is { } level ? Number(level) : "mean",
             ["direction"] = (spec.Section ?? new SectionSettings()).Direction.ToString().ToLowerInvariant(),
         },
+        ["starts"] = spec.Starts is { } starts ? Starts(starts) : null,
+    };
+
+    private static JsonObject Starts(StartSpec starts) => new()
+    {
+        ["count"] = starts.Count,
+        ["lattice"] = starts.Lattice is { } lattice ? new JsonArray(lattice.Axes.Select(Axis).ToArray()) : null,
+        ["ranges"] = starts.Lattice is null
+            ? new JsonArray(starts.Ranges.Select(r => (JsonNode)new JsonObject { ["variable"] = r.Variable, ["from"] = Number(r.From), ["to"] = Number(r.To) }).ToArray())
+            : null,
+        ["seed"] = starts.Lattice is null ? starts.Seed.ToString(CultureInfo.InvariantCulture) : null,
     };
 
     public static JsonObject NormaliseModel(ModelSource model)

@@ -18,6 +18,7 @@ namespace Sweeps.Engine.Specs;
 /// <param name="OutputDirectory">[output] dir, if given.</param>
 /// <param name="ChunkSize">[output] chunk_size: points per chunk and part file, if fixed by the config.</param>
 /// <param name="Section">The Poincaré section of an autonomous flow.</param>
+/// <param name="Starts">Several starts per point, when asked for; null means one start, the point's initial state.</param>
 public sealed record SweepSpec(
     string SourceFile,
     ModelSource Model,
@@ -28,4 +29,9 @@ public sealed record SweepSpec(
     IntegratorSettings Integrator,
     string? OutputDirectory,
     long? ChunkSize = null,
-    SectionSettings? Section = null);
+    SectionSettings? Section = null,
+    StartSpec? Starts = null)
+{
+    /// <summary>Starting states analysed per parameter point.</summary>
+    public int StartCount => Starts?.Count ?? 1;
+}

@@ -1,0 +1,92 @@
+using Parquet;
+using Parquet.Schema;
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Attractors;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// One label per point for a basin picture: the attractor with the largest basin at each point (its
+/// attractor 0), identified across the whole grid by <see cref="AttractorCatalog"/> in point order, so the
+/// same attractor has the same label — and colour — wherever it is reached.
+/// </summary>
+public sealed class AttractorLabels
+{
+    private AttractorLabels(int[] label, IReadOnlyList<AttractorSignature> known, bool overflowed)
+    {
+        Label = label;
+        Known = known;
+        Overflowed = overflowed;
+    }
+
+    /// <summary>Per row of the run table (point order); <see cref="AttractorCatalog.Other"/> beyond the catalog's capacity, −2 for a point with no attractor row.</summary>
+    public int[] Label { get; }
+
+    /// <summary>The attractor behind each label.</summary>
+    public IReadOnlyList<AttractorSignature> Known { get; }
+
+    public bool Overflowed { get; }
+
+    /// <summary>The label of a point missing from the attractors table (a chunk not yet finished).</summary>
+    public const int Missing = -2;
+
+    internal static async Task<AttractorLabels> ReadAsync(RunDirectory run, long[] points, CancellationToken token)
+    {
+        var spec = run.LoadSpec();
+        var variables = spec.Model.Variables;
+        var catalog = new AttractorCatalog(spec.Analysis.Tolerance, spec.Analysis.ZeroBand);
+        var byPoint = new Dictionary<long, int>();
+        var parts = Directory.Exists(run.AttractorPartsPath)
+            ? Directory.EnumerateFiles(run.AttractorPartsPath, "part-*.parquet").Order(StringComparer.Ordinal)
+            : Enumerable.Empty<string>();
+        foreach (var part in parts)
+        {
+            await using var reader = await ParquetReader.CreateAsync(part, null, token);
+            var fields = reader.Schema.DataFields;
+            DataField Field(string name) => fields.First(f => f.Name == name);
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var group = reader.OpenRowGroupReader(g);
+                var rows = (int)group.RowCount;
+                var point = await RunTable.Read<long>(group, Field("point"), rows, token);
+                var id = await RunTable.Read<int>(group, Field("attractor"), rows, token);
+                var regime = new string[rows];
+                await group.ReadAsync(Field("regime"), regime, null, token);
+                var period = await RunTable.Read<int>(group, Field("period"), rows, token);
+                var exponent = await RunTable.Read<double>(group, Field("lyapunov_1"), rows, token);
+                var error = await RunTable.Read<double>(group, Field("lyapunov_error_1"), rows, token);
+                var state = await Columns(group, Field, "state_", variables, rows, token);
+                var low = await Columns(group, Field, "low_", variables, rows, token);
+                var high = await Columns(group, Field, "high_", variables, rows, token);
+                for (var r = 0; r < rows; r++)
+                {
+                    if (id[r] != 0)
+                    {
+                        continue;
+                    }
+
+                    var signature = new AttractorSignature(
+                        RegimeNames.TryParse(regime[r], out var parsed) ? parsed : Regime.Unresolved, period[r], Row(state, r), new StateBox(Row(low, r), Row(high, r)), exponent[r], error[r]);
+                    byPoint[point[r]] = catalog.Label(signature);
+                }
+            }
+        }
+
+        var labels = points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray();
+        return new AttractorLabels(labels, catalog.Known, catalog.Overflowed);
+    }
+
+    private static async Task<double[][]> Columns(
+        ParquetRowGroupReader group, Func<string, DataField> field, string prefix, IReadOnlyList<string> variables, int rows, CancellationToken token)
+    {
+        var columns = new double[variables.Count][];
+        for (var i = 0; i < variables.Count; i++)
+        {
+            columns[i] = await RunTable.Read<double>(group, field(prefix + variables[i]), rows, token);
+        }
+
+        return columns;
+    }
+
+    private static double[] Row(double[][] columns, int row) => columns.Select(c => c[row]).ToArray();
+}
