@@ -113,7 +113,8 @@ public static class MapRenderer
         var nx = (int)plane.Free[0].Count;
         var (x0, x1) = x.Range();
         var samples = table.Samples ?? throw new InvalidOperationException("samples were not read");
-        var finite = plane.Rows.SelectMany(r => samples[r]).Where(double.IsFinite).ToArray();
+        var backward = table.BackwardSamples;
+        var finite = plane.Rows.SelectMany(r => backward is null ? samples[r] : samples[r].Concat(backward[r])).Where(double.IsFinite).ToArray();
         var (low, high) = finite.Length == 0 ? (-1.0, 1.0) : (finite.Min(), finite.Max());
         if (high - low < 1e-12)
         {
@@ -125,6 +126,61 @@ public static class MapRenderer
 
         // Density, not overplotted dots: count samples per cell, shade by log(1 + count).
         var columns = Math.Min(nx, 1200);
+        var (counts, most) = Density(plane, samples, columns, nx, low, high);
+        var (backCounts, backMost) = backward is null ? (null, 1) : Density(plane, backward, columns, nx, low, high);
+        using var density = new SKBitmap(columns, DensityRows);
+        for (var r = 0; r < DensityRows; r++)
+        {
+            for (var c = 0; c < columns; c++)
+            {
+                density.SetPixel(c, r, backCounts is null
+                    ? Grey(Shade(counts[r, c], most))
+                    : TwoBranches(Shade(counts[r, c], most), Shade(backCounts[r, c], backMost)));
+            }
+        }
+
+        var densityImage = plot.Add.ImageRect(new Image(density), new CoordinateRect(x0, x1, low, high));
+        densityImage.AntiAlias = false;
+
+        // The class strip beneath the diagram (and, for a continuation sweep, the hysteresis strip under it).
+        var stripHigh = low - (0.02 * (high - low));
+        var stripLow = low - (0.08 * (high - low));
+        if (table.Hysteresis is { } hysteresis)
+        {
+            var bandLow = stripLow - (0.05 * (high - low));
+            using var band = new SKBitmap(nx, 1);
+            band.Erase(ToSkia(Palette.Unknown));
+            for (var k = 0; k < plane.Rows.Count; k++)
+            {
+                if (hysteresis[plane.Rows[k]])
+                {
+                    band.SetPixel((int)plane.Cells[k][0], 0, ToSkia(Palette.Hysteresis));
+                }
+            }
+
+            var bandImage = plot.Add.ImageRect(new Image(band), new CoordinateRect(x0, x1, bandLow, stripLow - (0.01 * (high - low))));
+            bandImage.AntiAlias = false;
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "forward sweep", FillColor = Palette.ForwardBranch, LineWidth = 0, MarkerSize = 0 });
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "backward sweep", FillColor = Palette.BackwardBranch, LineWidth = 0, MarkerSize = 0 });
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "hysteresis (lower strip)", FillColor = Palette.Hysteresis, LineWidth = 0, MarkerSize = 0 });
+            stripLow = bandLow;
+        }
+        using var strip = new SKBitmap(nx, 1);
+        strip.Erase(ToSkia(Palette.Unknown));
+        for (var k = 0; k < plane.Rows.Count; k++)
+        {
+            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], StripMode(mode))));
+        }
+
+        var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
+        stripImage.AntiAlias = false;
+        AddLegend(plot, table, plane.Rows, StripMode(mode));
+        plot.Axes.SetLimits(x0, x1, stripLow, high);
+        Label(plot, x, $"{variable} (samples; strip: {Describe(StripMode(mode))})");
+    }
+
+    private static (int[,] Counts, int Most) Density(MapPlane plane, double[][] samples, int columns, int nx, double low, double high)
+    {
         var counts = new int[DensityRows, columns];
         var most = 1;
         for (var k = 0; k < plane.Rows.Count; k++)
@@ -140,35 +196,25 @@ public static class MapRenderer
             }
         }
 
-        using var density = new SKBitmap(columns, DensityRows);
-        for (var r = 0; r < DensityRows; r++)
-        {
-            for (var c = 0; c < columns; c++)
-            {
-                var shade = counts[r, c] == 0 ? 0 : 0.25 + (0.75 * Math.Log(1 + counts[r, c]) / Math.Log(1 + most));
-                var level = (byte)(255 - (int)(shade * 235));
-                density.SetPixel(c, r, new SKColor(level, level, (byte)Math.Min(255, level + 12)));
-            }
-        }
+        return (counts, most);
+    }
 
-        var densityImage = plot.Add.ImageRect(new Image(density), new CoordinateRect(x0, x1, low, high));
-        densityImage.AntiAlias = false;
+    /// <summary>0 for an empty cell, else 0.25 … 1 by log(1 + count).</summary>
+    private static double Shade(int count, int most) => count == 0 ? 0 : 0.25 + (0.75 * Math.Log(1 + count) / Math.Log(1 + most));
 
-        // The class strip beneath the diagram.
-        var stripHigh = low - (0.02 * (high - low));
-        var stripLow = low - (0.08 * (high - low));
-        using var strip = new SKBitmap(nx, 1);
-        strip.Erase(ToSkia(Palette.Unknown));
-        for (var k = 0; k < plane.Rows.Count; k++)
-        {
-            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], StripMode(mode))));
-        }
+    private static SKColor Grey(double shade)
+    {
+        var level = (byte)(255 - (int)(shade * 235));
+        return new SKColor(level, level, (byte)Math.Min(255, level + 12));
+    }
 
-        var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, stripLow, stripHigh));
-        stripImage.AntiAlias = false;
-        AddLegend(plot, table, plane.Rows, StripMode(mode));
-        plot.Axes.SetLimits(x0, x1, stripLow, high);
-        Label(plot, x, $"{variable} (samples; strip: {Describe(StripMode(mode))})");
+    /// <summary>Each branch tints white towards its own colour; where both have samples the tints multiply (darker).</summary>
+    private static SKColor TwoBranches(double forward, double backward)
+    {
+        static double Tint(double shade, byte channel) => 1 - (shade * (1 - (channel / 255.0)));
+        var (f, b) = (Palette.ForwardBranch, Palette.BackwardBranch);
+        byte Mix(byte fc, byte bc) => (byte)Math.Round(255 * Tint(forward, fc) * Tint(backward, bc));
+        return new SKColor(Mix(f.R, b.R), Mix(f.G, b.G), Mix(f.B, b.B));
     }
 
     private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode)

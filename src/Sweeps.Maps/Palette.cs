@@ -45,6 +45,13 @@ public static class Palette
     public static Color ForAttractor(int label) =>
         label < 0 ? NoPeriod : label < AttractorColors.Length ? AttractorColors[label] : LongerPeriod;
 
+    /// <summary>Continuation sweeps: the two branches of a bifurcation diagram and the strip marking where they differ.</summary>
+    public static readonly Color ForwardBranch = Color.FromHex("#3B3B98");
+
+    public static readonly Color BackwardBranch = Color.FromHex("#D95F02");
+
+    public static readonly Color Hysteresis = Color.FromHex("#6B1E4F");
+
     public static Color ForPeriod(int period) =>
         period <= 0 ? NoPeriod : period <= PeriodColors.Length ? PeriodColors[period - 1] : LongerPeriod;
 

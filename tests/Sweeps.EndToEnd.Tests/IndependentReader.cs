@@ -93,6 +93,7 @@ internal sealed record IndependentReader(IReadOnlyList<string> Columns, IReadOnl
         {
             PhysicalType.Int64 => column.LogicalReader<long>().ReadAll(count).Cast<object?>().ToArray(),
             PhysicalType.Int32 => column.LogicalReader<int>().ReadAll(count).Cast<object?>().ToArray(),
+            PhysicalType.Boolean => column.LogicalReader<bool>().ReadAll(count).Cast<object?>().ToArray(),
             PhysicalType.Double => column.LogicalReader<double>().ReadAll(count).Cast<object?>().ToArray(),
             PhysicalType.ByteArray => column.LogicalReader<string?>().ReadAll(count).Cast<object?>().ToArray(),
             _ => throw new NotSupportedException(descriptor.PhysicalType.ToString()),

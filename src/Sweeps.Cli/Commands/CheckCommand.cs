@@ -17,9 +17,7 @@ internal static class CheckCommand
         {
             var spec = SpecReader.Load(parse.GetRequiredValue(config));
             var estimate = CostEstimate.Measure(spec);
-            var plan = spec.ChunkSize is { } size
-                ? ChunkPlan.Fixed(spec.Grid.PointCount, size)
-                : ChunkPlan.For(spec.Grid.PointCount, estimate.SecondsPerPoint, Environment.ProcessorCount);
+            var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount);
             CheckText.Write(spec, estimate, plan, Environment.ProcessorCount, output);
             return ExitCodes.Success;
         });

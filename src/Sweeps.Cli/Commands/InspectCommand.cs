@@ -32,6 +32,7 @@ internal static class InspectCommand
             SummaryText.Line(cli.Output, "provenance", $"spec {manifest.SpecHash[..12]}, model {manifest.ModelHash[..12]}, Sweeps {manifest.ProgramVersion}");
             SummaryText.Line(cli.Output, "regimes", SummaryText.Regimes(summary));
             SummaryText.Line(cli.Output, "periods", SummaryText.Periods(summary));
+            SummaryText.Multistability(cli.Output, summary);
             SummaryText.Line(cli.Output, "λ1 range", SummaryText.Range(summary));
             SummaryText.Line(cli.Output, "missing", SummaryText.Missing(summary));
             return ExitCodes.Success;

@@ -76,6 +76,7 @@ internal static class RunCommand
         SummaryText.Line(output, "finished", $"{pointsToRun:N0} points computed in {Numbers.Format(clock.Elapsed.TotalSeconds, "g3")} s ({rate:N0} points/s)");
         SummaryText.Line(output, "regimes", SummaryText.Regimes(summary));
         SummaryText.Line(output, "periods", SummaryText.Periods(summary));
+        SummaryText.Multistability(output, summary);
         return ExitCodes.Success;
     }
 

@@ -22,9 +22,7 @@ internal sealed record SweepSetup(SweepSpec Spec, string ConfigText, IReadOnlyLi
         }
 
         var estimate = CostEstimate.Measure(spec);
-        var plan = spec.ChunkSize is { } size
-            ? ChunkPlan.Fixed(spec.Grid.PointCount, size)
-            : ChunkPlan.For(spec.Grid.PointCount, estimate.SecondsPerPoint, workers);
+        var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers);
         return new SweepSetup(spec, text, overrides, directory, plan.ChunkSize, estimate);
     }
 

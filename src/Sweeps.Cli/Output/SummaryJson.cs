@@ -88,6 +88,16 @@ internal static class SummaryJson
                 }
 
                 json.WriteEndObject();
+                json.WriteNumber("multistable_points", summary.MultistablePoints);
+                if (summary.HysteresisPoints is { } hysteretic)
+                {
+                    json.WriteNumber("hysteresis_points", hysteretic);
+                }
+                else
+                {
+                    json.WriteNull("hysteresis_points");
+                }
+
                 json.WritePropertyName("lyapunov_1_min");
                 JsonNumbers.Write(json, summary.LargestExponentMin);
                 json.WritePropertyName("lyapunov_1_max");

@@ -15,6 +15,19 @@ internal static class SummaryText
             ? "none"
             : string.Join("  ", summary.Periods.Take(16).Select(p => $"{p.Key}: {p.Value:N0}")) + (summary.Periods.Count > 16 ? "  …" : "");
 
+    /// <summary>The lines about coexisting attractors, when a run has any to report (several starts or a continuation sweep).</summary>
+    public static void Multistability(TextWriter output, RunSummary summary)
+    {
+        if (summary.HysteresisPoints is { } hysteretic)
+        {
+            Line(output, "hysteresis", $"{hysteretic:N0} points (the forward and backward sweeps end on different attractors)");
+        }
+        else if (summary.MultistablePoints > 0)
+        {
+            Line(output, "multistable", $"{summary.MultistablePoints:N0} points reached more than one attractor from their starts");
+        }
+    }
+
     public static string Range(RunSummary summary) =>
         double.IsNaN(summary.LargestExponentMin)
             ? "not computed"

@@ -14,9 +14,16 @@ public static partial class SpecReader
         }
 
         var axes = new List<GridAxis>();
+        ConfigEntry? follow = null;
         foreach (var entry in table.Entries)
         {
             var name = entry.Key;
+            if (name == "follow" && entry.Value is ConfigScalar { Value: string })
+            {
+                follow = entry;
+                continue;
+            }
+
             var parameter = IndexOf(model.Parameters, name);
             var variable = IndexOf(model.Variables, name);
             if (parameter < 0 && variable < 0)
@@ -34,7 +41,7 @@ public static partial class SpecReader
             }
         }
 
-        var grid = new Grid(axes);
+        var grid = new Grid(axes, follow is null ? null : ReadFollow(reader, follow, axes));
         var total = axes.Aggregate(1.0, (product, axis) => product * axis.Count);
         if (total > Grid.MaxPoints)
         {
@@ -43,6 +50,37 @@ public static partial class SpecReader
         }
 
         return grid;
+    }
+
+    /// <summary>
+    /// <c>follow = "NAME"</c>: a continuation sweep along that parameter axis — each line of the grid along it
+    /// is swept forward and then backward, each point starting from the previous one's final state.
+    /// </summary>
+    private static int? ReadFollow(ConfigReader reader, ConfigEntry entry, List<GridAxis> axes)
+    {
+        var name = (string)((ConfigScalar)entry.Value).Value!;
+        var index = axes.FindIndex(a => a.Name == name);
+        if (index < 0)
+        {
+            var suggestion = Core.Expressions.NameSuggester.Closest(name, axes.Select(a => a.Name));
+            var hint = suggestion is null ? "" : $" (did you mean '{suggestion}'?)";
+            reader.Problem(entry.Value.Position, $"grid.follow: '{name}' is not an axis of the grid{hint}");
+            return null;
+        }
+
+        if (axes[index].Target != AxisTarget.Parameter)
+        {
+            reader.Problem(entry.Value.Position, $"grid.follow: '{name}' is a variable; a continuation sweep follows a parameter (each point starts where the previous one ended)");
+            return null;
+        }
+
+        if (axes[index].Count < 2)
+        {
+            reader.Problem(entry.Value.Position, $"grid.follow: '{name}' has one value; there is nothing to follow");
+            return null;
+        }
+
+        return index;
     }
 
     private static GridAxis? ReadAxis(ConfigReader reader, ConfigEntry entry, AxisTarget target, int slot, string section)

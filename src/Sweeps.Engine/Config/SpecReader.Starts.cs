@@ -25,6 +25,12 @@ public static partial class SpecReader
             return null;
         }
 
+        if (grid.Follow is not null)
+        {
+            reader.Problem(table.Position, "starts: a continuation sweep (grid.follow) starts each point from the previous one's end; it takes no [starts]");
+            return null;
+        }
+
         var seed = reader.Integer(table, "seed", 0, long.MaxValue);
         var ranges = new List<StartRange>();
         var lattice = new List<GridAxis>();

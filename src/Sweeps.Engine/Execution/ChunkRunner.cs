@@ -38,6 +38,11 @@ public static class ChunkRunner
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
     {
+        if (context.Spec.Grid.Follow is not null)
+        {
+            return ComputeLines(context, chunk, progress, token);
+        }
+
         var spec = context.Spec;
         var manifest = context.Run.Manifest;
         var first = chunk * manifest.ChunkSize;
@@ -86,6 +91,69 @@ public static class ChunkRunner
         progress?.Invoke(pending);
         return (columns, attractors);
     }
+
+    /// <summary>
+    /// A continuation sweep: the chunk holds whole lines along the followed axis. Each line is swept forward
+    /// from its first point's own initial state, every next point starting from the previous one's final
+    /// state, then backward from the last forward state. Where the two branches end on different attractors
+    /// (neither unresolved) the point is flagged as hysteretic. A point after a divergent one starts afresh
+    /// from its own initial state. The row holds the forward branch, the backward_ columns the other.
+    /// </summary>
+    private static (ChunkColumns Points, AttractorColumns Attractors) ComputeLines(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
+    {
+        var spec = context.Spec;
+        var grid = spec.Grid;
+        var manifest = context.Run.Manifest;
+        var length = grid.LineLength;
+        var linesPerChunk = manifest.ChunkSize / length;
+        var firstLine = chunk * linesPerChunk;
+        var lastLine = Math.Min(grid.LineCount, firstLine + linesPerChunk);
+        var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
+        var dimension = spec.Model.Variables.Count;
+        var columns = new ChunkColumns((int)((lastLine - firstLine) * length), grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: true);
+        var attractors = new AttractorColumns(dimension);
+        var source = new Specs.PointSource(spec);
+        var forward = new PointResult[length];
+        var backward = new PointResult[length];
+        for (var line = firstLine; line < lastLine; line++)
+        {
+            PointResult? previous = null;
+            for (var step = 0L; step < length; step++)
+            {
+                source.Fill(grid.LinePoint(line, step));
+                forward[step] = previous = Analyze(analyzer, Continued(previous, spec) ?? source.Initial, source.Parameters);
+            }
+
+            for (var step = length - 1; step >= 0; step--)
+            {
+                source.Fill(grid.LinePoint(line, step));
+                backward[step] = previous = Analyze(analyzer, Continued(previous, spec) ?? source.Initial, source.Parameters);
+            }
+
+            for (var step = 0L; step < length; step++)
+            {
+                var point = grid.LinePoint(line, step);
+                source.Fill(point);
+                var found = AttractorGrouping.Group([forward[step], backward[step]], spec.Analysis);
+                var hysteresis = found.Count > 1 && forward[step].Regime != Regime.Unresolved && backward[step].Regime != Regime.Unresolved;
+                columns.Add(point, source.AxisValues, forward[step], found.Count);
+                columns.AddBackward(backward[step], hysteresis);
+                foreach (var attractor in found)
+                {
+                    attractors.Add(point, attractor);
+                }
+            }
+
+            token.ThrowIfCancellationRequested();
+            progress?.Invoke(length);
+        }
+
+        return (columns, attractors);
+    }
+
+    /// <summary>The state a continuation carries on from: the previous point's final state, unless there is none or it escaped.</summary>
+    private static double[]? Continued(PointResult? previous, Specs.SweepSpec spec) =>
+        previous is { Regime: not Regime.Divergent } && PointResult.Bounded(previous.FinalState, spec.Analysis.Escape) ? previous.FinalState.ToArray() : null;
 
     /// <summary>Analyses one start; an analysis that throws becomes an unresolved result with the reason.</summary>
     public static PointResult Analyze(IPointAnalyzer analyzer, double[] initial, double[] parameters)

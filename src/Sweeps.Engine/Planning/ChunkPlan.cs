@@ -26,6 +26,18 @@ public sealed record ChunkPlan(long Points, long ChunkSize)
         return new ChunkPlan(points, Math.Min(size, Math.Max(points, 1)));
     }
 
+    /// <summary>
+    /// The plan for a spec: its [output] chunk_size if given, else one planned from the cost per point; for a
+    /// continuation sweep rounded up to whole lines along the followed axis (a line is computed in order).
+    /// </summary>
+    public static ChunkPlan Of(Specs.SweepSpec spec, double secondsPerPoint, int workers)
+    {
+        var points = spec.Grid.PointCount;
+        var plan = spec.ChunkSize is { } size ? Fixed(points, size) : For(points, secondsPerPoint, workers);
+        var line = spec.Grid.LineLength;
+        return line == 1 ? plan : plan with { ChunkSize = Math.Min((plan.ChunkSize + line - 1) / line * line, points) };
+    }
+
     /// <summary>A plan with the chunk size fixed by the config.</summary>
     public static ChunkPlan Fixed(long points, long chunkSize) => new(points, Math.Min(chunkSize, Math.Max(points, 1)));
 }

@@ -7,7 +7,7 @@ namespace Sweeps.Engine.Planning;
 
 /// <summary>
 /// Estimates the compute cost of a sweep by timing the analysis of a few points spread evenly over
-/// the grid, after a warm-up, averaging the middle half of the timings (times the starts per point). Cost per point varies across a grid
+/// the grid, after a warm-up, averaging the middle half of the timings (times the analyses per point: starts, or the two directions of a continuation sweep). Cost per point varies across a grid
 /// (divergent points stop early, chaotic ones do not), so this is a guide, not a promise.
 /// </summary>
 public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, double TotalCpuSeconds)
@@ -39,8 +39,8 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         // The mean of the middle half: robust to a late JIT pause, still sensitive to expensive regions.
         Array.Sort(times);
         var middle = times.Skip(count / 4).Take(Math.Max(1, count - (2 * (count / 4)))).ToArray();
-        // Every start of a point is a full analysis.
-        var perPoint = middle.Average() * spec.StartCount;
+        // Every start of a point is a full analysis, and a continuation sweep analyses each point twice.
+        var perPoint = middle.Average() * spec.AnalysesPerPoint;
         return new CostEstimate(count, perPoint, perPoint * points);
     }
 }

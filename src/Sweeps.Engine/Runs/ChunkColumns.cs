@@ -7,8 +7,10 @@ internal sealed class ChunkColumns
 {
     private readonly int n;
 
-    public ChunkColumns(int capacity, int axes, int dimension, bool indicators = false)
+    public ChunkColumns(int capacity, int axes, int dimension, bool indicators = false, bool branches = false)
     {
+        Hysteresis = branches ? new bool[capacity] : [];
+        Backward = branches ? new ChunkColumns(capacity, 0, dimension) : null;
         Indicators = Columns(indicators ? 3 : 0, capacity);
         n = dimension;
         Point = new long[capacity];
@@ -50,6 +52,12 @@ internal sealed class ChunkColumns
     public double[][] Indicators { get; }
 
     public string?[] Reason { get; }
+
+    /// <summary>Continuation sweeps: whether the two branches differ at the row's point (empty otherwise).</summary>
+    public bool[] Hysteresis { get; }
+
+    /// <summary>Continuation sweeps: the backward branch, row for row (null otherwise).</summary>
+    public ChunkColumns? Backward { get; }
 
     /// <summary>Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list; repetition 0 starts a row.</summary>
     public List<double> SampleValues { get; } = [];
@@ -100,6 +108,13 @@ internal sealed class ChunkColumns
             SampleDefinitions.Add(2);
             SampleRepetitions.Add(i == 0 ? 0 : 1);
         }
+    }
+
+    /// <summary>Adds the backward branch of the row just added.</summary>
+    public void AddBackward(PointResult result, bool hysteresis)
+    {
+        Hysteresis[Count - 1] = hysteresis;
+        Backward!.Add(Point[Count - 1], [], result);
     }
 
     private static double[][] Columns(int count, int capacity)

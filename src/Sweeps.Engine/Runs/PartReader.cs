@@ -10,7 +10,7 @@ internal static class PartReader
     {
         await using var reader = await ParquetReader.CreateAsync(path, null, token);
         var rows = (int)Enumerable.Range(0, reader.RowGroupCount).Sum(g => reader.OpenRowGroupReader(g).RowCount);
-        var columns = new ChunkColumns(rows, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0);
+        var columns = new ChunkColumns(rows, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0, schema.HasBranches);
         var offset = 0;
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
@@ -44,20 +44,42 @@ internal static class PartReader
             await group.ReadAsync(schema.Reason, reason, null, token);
             reason.CopyTo(columns.Reason, offset);
 
-            var levels = (int)group.GetMetadata(schema.SampleValue)!.MetaData!.NumValues;
-            var values = new double[levels];
-            var definitions = new int[levels];
-            var repetitions = new int[levels];
-            await group.ReadRawAsync<double>(schema.SampleValue, values, definitions, repetitions, token);
-            var used = definitions.Count(d => d == 2);
-            columns.SampleValues.AddRange(values.Take(used));
-            columns.SampleDefinitions.AddRange(definitions);
-            columns.SampleRepetitions.AddRange(repetitions);
+            await ReadSamples(group, schema.SampleValue, columns, token);
+            if (columns.Backward is { } backward)
+            {
+                await Read(group, schema.Hysteresis, columns.Hysteresis.AsMemory(offset, count), token);
+                var backwardRegime = new string[count];
+                await group.ReadAsync(schema.BackwardRegime, backwardRegime, null, token);
+                backwardRegime.CopyTo(backward.Regime, offset);
+                await Read(group, schema.BackwardPeriod, backward.Period.AsMemory(offset, count), token);
+                await Read(group, schema.BackwardLyapunov, backward.Lyapunov[0].AsMemory(offset, count), token);
+                for (var i = 0; i < schema.BackwardFinal.Count; i++)
+                {
+                    await Read(group, schema.BackwardFinal[i], backward.Final[i].AsMemory(offset, count), token);
+                }
+
+                await ReadSamples(group, schema.BackwardSampleValue, backward, token);
+            }
+
             offset += count;
         }
 
         columns.SetCount(rows);
+        columns.Backward?.SetCount(rows);
         return columns;
+    }
+
+    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, ChunkColumns columns, CancellationToken token)
+    {
+        var levels = (int)group.GetMetadata(field)!.MetaData!.NumValues;
+        var values = new double[levels];
+        var definitions = new int[levels];
+        var repetitions = new int[levels];
+        await group.ReadRawAsync<double>(field, values, definitions, repetitions, token);
+        var used = definitions.Count(d => d == 2);
+        columns.SampleValues.AddRange(values.Take(used));
+        columns.SampleDefinitions.AddRange(definitions);
+        columns.SampleRepetitions.AddRange(repetitions);
     }
 
     private static async Task Read<T>(ParquetRowGroupReader group, DataField field, Memory<T> target, CancellationToken token)

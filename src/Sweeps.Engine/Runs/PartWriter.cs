@@ -66,13 +66,25 @@ internal static class PartWriter
         await WriteAll(group, schema.Final, columns.Final, count, token);
         await WriteAll(group, schema.Indicators, columns.Indicators, count, token);
         await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
-        await group.WriteAllPartsAsync<double>(
-            schema.SampleValue,
+        await WriteSamples(group, schema.SampleValue, columns, token);
+        if (schema.HasBranches && columns.Backward is { } backward)
+        {
+            await group.WriteAsync(schema.Hysteresis, new ReadOnlyMemory<bool>(columns.Hysteresis, 0, count), null, null, token);
+            await group.WriteAsync(schema.BackwardRegime, new ArraySegment<string>(backward.Regime, 0, count));
+            await group.WriteAsync(schema.BackwardPeriod, new ReadOnlyMemory<int>(backward.Period, 0, count), null, null, token);
+            await group.WriteAsync(schema.BackwardLyapunov, new ReadOnlyMemory<double>(backward.Lyapunov[0], 0, count), null, null, token);
+            await WriteAll(group, schema.BackwardFinal, backward.Final, count, token);
+            await WriteSamples(group, schema.BackwardSampleValue, backward, token);
+        }
+    }
+
+    private static Task WriteSamples(ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token) =>
+        group.WriteAllPartsAsync<double>(
+            field,
             columns.SampleValues.ToArray(),
             new ReadOnlyMemory<int>(columns.SampleDefinitions.ToArray()),
             new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
             token);
-    }
 
     public static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
     {

@@ -51,15 +51,18 @@ public static class RunExport
             .Concat(schema.LyapunovError.Select(f => f.Name))
             .Concat(schema.Final.Select(f => f.Name))
             .Concat(schema.Indicators.Select(f => f.Name))
-            .Concat(["reason", "samples"]);
+            .Concat(["reason", "samples"])
+            .Concat(schema.HasBranches
+                ? ["hysteresis", "backward_regime", "backward_period", "backward_lyapunov_1", .. schema.BackwardFinal.Select(f => f.Name), "backward_samples"]
+                : []);
         await output.WriteLineAsync(string.Join(",", header));
         var rows = 0L;
         var line = new StringBuilder();
         foreach (var part in Parts(run))
         {
             var columns = await PartReader.ReadAsync(part, schema, token);
-            var sample = 0;
-            var level = 0;
+            var samples = new SampleCursor(columns);
+            var backwardSamples = columns.Backward is { } back ? new SampleCursor(back) : null;
             for (var row = 0; row < columns.Count; row++)
             {
                 line.Clear();
@@ -78,20 +81,20 @@ public static class RunExport
                 }
 
                 line.Append(',').Append(Quote(columns.Reason[row])).Append(',');
-
-                // One list per row: levels until the next repetition level 0.
-                var first = true;
-                do
+                samples.AppendRow(line);
+                if (columns.Backward is { } backward)
                 {
-                    if (columns.SampleDefinitions[level] == 2)
+                    line.Append(',').Append(columns.Hysteresis[row] ? "true" : "false");
+                    line.Append(',').Append(backward.Regime[row]).Append(',').Append(backward.Period[row].ToString(CultureInfo.InvariantCulture));
+                    line.Append(',').Append(Number(backward.Lyapunov[0][row]));
+                    foreach (var column in backward.Final)
                     {
-                        line.Append(first ? "" : ";").Append(Number(columns.SampleValues[sample++]));
-                        first = false;
+                        line.Append(',').Append(Number(column[row]));
                     }
 
-                    level++;
+                    line.Append(',');
+                    backwardSamples!.AppendRow(line);
                 }
-                while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
 
                 await output.WriteLineAsync(line.ToString());
                 rows++;
@@ -99,6 +102,29 @@ public static class RunExport
         }
 
         return rows;
+    }
+
+    /// <summary>Walks a list column's levels one row at a time: values until the next repetition level 0, joined by ';'.</summary>
+    private sealed class SampleCursor(ChunkColumns columns)
+    {
+        private int sample;
+        private int level;
+
+        public void AppendRow(StringBuilder line)
+        {
+            var first = true;
+            do
+            {
+                if (columns.SampleDefinitions[level] == 2)
+                {
+                    line.Append(first ? "" : ";").Append(Number(columns.SampleValues[sample++]));
+                    first = false;
+                }
+
+                level++;
+            }
+            while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+        }
     }
 
     /// <summary>Doubles in round-trip form; NaN, Infinity and -Infinity spelt as .NET, pandas and DuckDB read them.</summary>

@@ -4,7 +4,8 @@ namespace Sweeps.Engine.Runs;
 
 /// <summary>
 /// What a run holds, read from its part files alone: points per regime and per period, the range of
-/// the largest exponent, and which chunks are still missing.
+/// the largest exponent, points with several attractors, points flagged as hysteretic (continuation
+/// sweeps; null otherwise), and which chunks are still missing.
 /// </summary>
 public sealed record RunSummary(
     long Points,
@@ -16,7 +17,9 @@ public sealed record RunSummary(
     IReadOnlyDictionary<int, long> Periods,
     double LargestExponentMin,
     double LargestExponentMax,
-    string State)
+    string State,
+    long MultistablePoints = 0,
+    long? HysteresisPoints = null)
 {
     public static async Task<RunSummary> ReadAsync(RunDirectory run, CancellationToken token = default)
     {
@@ -24,6 +27,8 @@ public sealed record RunSummary(
         var periods = new SortedDictionary<int, long>();
         var (min, max) = (double.PositiveInfinity, double.NegativeInfinity);
         var done = 0L;
+        var multistable = 0L;
+        long? hysteretic = null;
         var missing = new List<long>();
         for (var chunk = 0L; chunk < run.Manifest.ChunkCount; chunk++)
         {
@@ -39,6 +44,8 @@ public sealed record RunSummary(
             var regimeField = fields.First(f => f.Name == "regime");
             var periodField = fields.First(f => f.Name == "period");
             var lyapunovField = fields.First(f => f.Name == "lyapunov_1");
+            var attractorsField = fields.First(f => f.Name == "attractors");
+            var hysteresisField = fields.FirstOrDefault(f => f.Name == "hysteresis");
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
                 using var group = reader.OpenRowGroupReader(g);
@@ -49,6 +56,15 @@ public sealed record RunSummary(
                 await group.ReadAsync(regimeField, regime, null, token);
                 await group.ReadAsync<int>(periodField, period, null, token);
                 await group.ReadAsync<double>(lyapunovField, lyapunov, null, token);
+                var attractors = new int[rows];
+                await group.ReadAsync<int>(attractorsField, attractors, null, token);
+                multistable += attractors.Count(a => a > 1);
+                if (hysteresisField is not null)
+                {
+                    var flags = new bool[rows];
+                    await group.ReadAsync<bool>(hysteresisField, flags, null, token);
+                    hysteretic = (hysteretic ?? 0) + flags.Count(f => f);
+                }
                 for (var i = 0; i < rows; i++)
                 {
                     regimes[regime[i]] = regimes.GetValueOrDefault(regime[i]) + 1;
@@ -77,6 +93,8 @@ public sealed record RunSummary(
             periods,
             min <= max ? min : double.NaN,
             min <= max ? max : double.NaN,
-            missing.Count == 0 ? RunManifest.Complete : "incomplete");
+            missing.Count == 0 ? RunManifest.Complete : "incomplete",
+            multistable,
+            hysteretic);
     }
 }

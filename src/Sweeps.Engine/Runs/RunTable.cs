@@ -10,8 +10,12 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 public sealed class RunTable
 {
-    private RunTable(long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples, AttractorLabels? attractors = null)
+    private RunTable(
+        long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples,
+        AttractorLabels? attractors = null, bool[]? hysteresis = null, double[][]? backwardSamples = null)
     {
+        Hysteresis = hysteresis;
+        BackwardSamples = backwardSamples;
         Attractors = attractors;
         Point = point;
         Axes = axes;
@@ -38,6 +42,12 @@ public sealed class RunTable
     /// <summary>Per row, the samples of the first variable (null unless requested).</summary>
     public double[][]? Samples { get; }
 
+    /// <summary>Continuation sweeps: per row, whether the forward and backward branches differ (null otherwise).</summary>
+    public bool[]? Hysteresis { get; }
+
+    /// <summary>Continuation sweeps: per row, the backward branch's samples of the first variable (null unless requested).</summary>
+    public double[][]? BackwardSamples { get; }
+
     /// <summary>Per row, the grid-wide label of the point's attractor with the largest basin (null unless requested).</summary>
     public AttractorLabels? Attractors { get; }
 
@@ -53,6 +63,9 @@ public sealed class RunTable
         var periods = new List<int>();
         var lyapunov = new List<double>();
         var sampleRows = samples ? new List<double[]>() : null;
+        var branches = run.LoadSpec().Grid.Follow is not null;
+        var hysteresis = branches ? new List<bool>() : null;
+        var backwardRows = branches && samples ? new List<double[]>() : null;
         var dimension = run.LoadSpec().Model.Variables.Count;
         foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
         {
@@ -78,6 +91,16 @@ public sealed class RunTable
                 {
                     sampleRows.AddRange(await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("samples", StringComparison.Ordinal)), dimension, token));
                 }
+
+                if (hysteresis is not null)
+                {
+                    hysteresis.AddRange(await Read<bool>(group, Field("hysteresis"), rows, token));
+                }
+
+                if (backwardRows is not null)
+                {
+                    backwardRows.AddRange(await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("backward_samples", StringComparison.Ordinal)), dimension, token));
+                }
             }
         }
 
@@ -90,7 +113,9 @@ public sealed class RunTable
             Sorted(periods),
             Sorted(lyapunov),
             sampleRows is null ? null : Sorted(sampleRows),
-            attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null);
+            attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null,
+            hysteresis is null ? null : Sorted(hysteresis),
+            backwardRows is null ? null : Sorted(backwardRows));
     }
 
     private static IReadOnlyList<string> SpecFingerprintAxes(RunDirectory run) =>

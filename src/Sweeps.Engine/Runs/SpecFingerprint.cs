@@ -24,6 +24,7 @@ public static class SpecFingerprint
         ["initial"] = Values(spec.Model.Variables, spec.Initial, spec.Grid, AxisTarget.Variable),
         ["parameters"] = Values(spec.Model.Parameters, spec.Parameters, spec.Grid, AxisTarget.Parameter),
         ["grid"] = new JsonArray(spec.Grid.Axes.Select(Axis).ToArray()),
+        ["follow"] = spec.Grid.Follow is { } follow ? spec.Grid.Axes[follow].Name : null,
         ["analysis"] = new JsonObject
         {
             ["transient"] = spec.Analysis.Transient,

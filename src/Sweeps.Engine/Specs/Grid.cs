@@ -2,9 +2,13 @@ namespace Sweeps.Engine.Specs;
 
 /// <summary>
 /// The Cartesian product of the axes, indexed row-major: the first axis varies slowest and the last
-/// fastest, as in a C array. A grid with no axes has exactly one point.
+/// fastest, as in a C array. A grid with no axes has exactly one point. With <see cref="Follow"/> set,
+/// the grid is also a set of lines along that axis (a continuation sweep runs each line in order): line
+/// ℓ holds the points whose other coordinates are the ℓ-th combination, row-major over the other axes.
 /// </summary>
-public sealed record Grid(IReadOnlyList<GridAxis> Axes)
+/// <param name="Axes">The axes, slowest first.</param>
+/// <param name="Follow">Index of the axis continuation sweeps follow, if any.</param>
+public sealed record Grid(IReadOnlyList<GridAxis> Axes, int? Follow = null)
 {
     /// <summary>Largest grid Sweeps accepts; far beyond any overnight run, small enough for an int64 index.</summary>
     public const long MaxPoints = 1_000_000_000_000;
@@ -43,5 +47,35 @@ public sealed record Grid(IReadOnlyList<GridAxis> Axes)
             point /= axis.Count;
             (axis.Target == AxisTarget.Parameter ? parameters : initial)[axis.Slot] = value;
         }
+    }
+
+    /// <summary>Points per line: the followed axis' length (1 without one).</summary>
+    public long LineLength => Follow is { } f ? Axes[f].Count : 1;
+
+    public long LineCount => PointCount / LineLength;
+
+    /// <summary>The point index of the <paramref name="step"/>-th point of line <paramref name="line"/>.</summary>
+    public long LinePoint(long line, long step)
+    {
+        if (Follow is not { } follow)
+        {
+            return line;
+        }
+
+        var rest = line;
+        Span<long> indices = stackalloc long[Axes.Count];
+        for (var a = Axes.Count - 1; a >= 0; a--)
+        {
+            if (a == follow)
+            {
+                continue;
+            }
+
+            indices[a] = rest % Axes[a].Count;
+            rest /= Axes[a].Count;
+        }
+
+        indices[follow] = step;
+        return PointIndex(indices);
     }
 }

@@ -34,4 +34,7 @@ public sealed record SweepSpec(
 {
     /// <summary>Starting states analysed per parameter point.</summary>
     public int StartCount => Starts?.Count ?? 1;
+
+    /// <summary>Full analyses per grid point: one per start, or two (forward and backward) in a continuation sweep.</summary>
+    public int AnalysesPerPoint => Grid.Follow is null ? StartCount : 2;
 }

@@ -53,4 +53,34 @@ public sealed class GridTests
         grid.Apply(grid.PointCount - 1, new double[0], parameters);
         Assert.Equal([1.0, 1.0, 1.0], parameters);
     }
+
+    // Exact (combinatorics): the lines along a followed axis cover every point exactly once, each line varies
+    // only that axis, in order, and keeps every other coordinate.
+    [Fact]
+    public void LinePoint_PartitionsTheGridIntoLinesAlongTheFollowedAxis()
+    {
+        var shapes = Gen.Long[1, 7].Array[1, 4];
+        Gen.Select(shapes, Gen.Int[0, 3]).Sample((shape, pick) =>
+        {
+            var follow = pick % shape.Length;
+            var grid = new Grid(shape.Select((count, i) => new GridAxis($"p{i}", AxisTarget.Parameter, i, 0, 1, count)).ToArray(), follow);
+            var seen = new HashSet<long>();
+            var indices = new long[shape.Length];
+            var first = new long[shape.Length];
+            for (var line = 0L; line < grid.LineCount; line++)
+            {
+                grid.Indices(grid.LinePoint(line, 0), first);
+                for (var step = 0L; step < grid.LineLength; step++)
+                {
+                    var point = grid.LinePoint(line, step);
+                    Assert.True(seen.Add(point));
+                    grid.Indices(point, indices);
+                    Assert.Equal(step, indices[follow]);
+                    Assert.All(Enumerable.Range(0, shape.Length).Where(a => a != follow), a => Assert.Equal(first[a], indices[a]));
+                }
+            }
+
+            Assert.Equal(grid.PointCount, seen.Count);
+        });
+    }
 }
