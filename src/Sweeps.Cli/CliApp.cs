@@ -27,6 +27,7 @@ internal static class CliApp
         root.Subcommands.Add(WorkerCommand.Create(cli));
         root.Subcommands.Add(StatusCommand.Create(cli));
         root.Subcommands.Add(InspectCommand.Create(cli));
+        root.Subcommands.Add(RefineCommand.Create(cli));
         root.Subcommands.Add(MapCommand.Create(cli));
         root.Subcommands.Add(DiffCommand.Create(cli));
         root.Subcommands.Add(ExportCommand.Create(cli));

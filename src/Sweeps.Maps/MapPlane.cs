@@ -1,3 +1,4 @@
+using Sweeps.Engine.Refinement;
 using Sweeps.Engine.Runs;
 using Sweeps.Engine.Specs;
 
@@ -7,8 +8,57 @@ namespace Sweeps.Maps;
 /// The rows of a run that lie on the drawn plane (or line): axes named in the slices are fixed at the
 /// grid value nearest to the one asked for; the remaining one or two axes are drawn.
 /// </summary>
-internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int> Rows, IReadOnlyList<long[]> Cells, string Description)
+/// <param name="Free">The drawn axes (for a refined plane: on the finest lattice).</param>
+/// <param name="Rows">The table rows on the plane.</param>
+/// <param name="Cells">Each row's index along each drawn axis.</param>
+/// <param name="Description">The fixed axes, as text.</param>
+/// <param name="Half">For a refined plane, each row's half-width in cells along each drawn axis (a coarser point
+/// covers the cells around it up to halfway to its neighbours); null when every row is one cell.</param>
+internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int> Rows, IReadOnlyList<long[]> Cells, string Description, IReadOnlyList<long[]>? Half = null)
 {
+    /// <summary>
+    /// The plane of a run and its refinement levels together, on the finest level's lattice: tables[ℓ] holds
+    /// level ℓ's rows (0 = the run itself); the merged table's rows are the tables' rows in order. A level-ℓ
+    /// point sits at its index × 2^(L − ℓ) along refined axes and covers ±2^(L − ℓ − 1) cells there.
+    /// </summary>
+    public static (MapPlane Plane, RunTable Merged) SelectRefined(Grid grid, IReadOnlyList<RunTable> tables, IReadOnlyDictionary<string, double> slices)
+    {
+        var finest = tables.Count - 1;
+        var coarse = Select(grid, tables[0], slices);
+
+        // Slices at the exact level-0 values, which every finer lattice holds bit for bit.
+        var exact = slices.Keys.ToDictionary(name => name, name =>
+        {
+            var axis = grid.Axes.First(a => a.Name == name);
+            return axis.ValueAt(Nearest(axis, slices[name]));
+        });
+        var rows = new List<int>();
+        var cells = new List<long[]>();
+        var halves = new List<long[]>();
+        var offset = 0;
+        for (var level = 0; level <= finest; level++)
+        {
+            var lattice = LevelGrid.At(grid, level);
+            var plane = Select(lattice, tables[level], exact);
+            var stretch = (int)Math.Pow(2, finest - level);
+            var free = plane.Free.Select(f => LevelGrid.Refinable(grid, IndexOf(grid, f.Name))).ToArray();
+            for (var k = 0; k < plane.Rows.Count; k++)
+            {
+                rows.Add(offset + plane.Rows[k]);
+                cells.Add(plane.Cells[k].Select((c, a) => free[a] ? c * stretch : c).ToArray());
+                halves.Add(free.Select(refined => refined ? (long)(stretch / 2) : 0L).ToArray());
+            }
+
+            offset += tables[level].Count;
+        }
+
+        var finestGrid = LevelGrid.At(grid, finest);
+        var axes = coarse.Free.Select(f => finestGrid.Axes[IndexOf(grid, f.Name)]).ToArray();
+        return (new MapPlane(axes, rows, cells, coarse.Description, halves), RunTable.Merge(tables));
+    }
+
+    private static int IndexOf(Grid grid, string name) => grid.Axes.ToList().FindIndex(a => a.Name == name);
+
     public static MapPlane Select(Grid grid, RunTable table, IReadOnlyDictionary<string, double> slices)
     {
         foreach (var name in slices.Keys.Where(n => grid.Axes.All(a => a.Name != n)))

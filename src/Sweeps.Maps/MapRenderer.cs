@@ -14,15 +14,25 @@ public static class MapRenderer
 {
     private const int DensityRows = 500;
 
-    public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title) =>
-        Build(run, table, request, title).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
+    /// <param name="levels">Refinement levels 1, 2, … of the run (their tables), drawn at the finest resolution; not used for attractor colours.</param>
+    public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
+        Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
 
     /// <summary>The plot, before rendering (tests render it and ask where data coordinates land in pixels).</summary>
-    internal static Plot Build(RunDirectory run, RunTable table, MapRequest request, string title)
+    internal static Plot Build(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null)
     {
         FontSetup.EnsureRegistered();
         var grid = run.LoadSpec().Grid;
-        var plane = MapPlane.Select(grid, table, request.Slices);
+        MapPlane plane;
+        if (levels is { Count: > 0 } && request.Color != ColorMode.Attractor)
+        {
+            (plane, table) = MapPlane.SelectRefined(grid, [table, .. levels], request.Slices);
+        }
+        else
+        {
+            plane = MapPlane.Select(grid, table, request.Slices);
+        }
+
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
         var subtitle = plane.Description.Length > 0 ? $" ({plane.Description})" : "";
@@ -73,8 +83,8 @@ public static class MapRenderer
 
             for (var k = 0; k < plane.Rows.Count; k++)
             {
-                var cell = plane.Cells[k];
-                values[ny - 1 - cell[1], cell[0]] = Clip(table.Lyapunov[plane.Rows[k]]);
+                var value = Clip(table.Lyapunov[plane.Rows[k]]);
+                Paint(plane, k, nx, ny, (i, j) => values[ny - 1 - j, i] = value);
             }
 
             var limit = Limit(table, plane);
@@ -93,8 +103,8 @@ public static class MapRenderer
             bitmap.Erase(ToSkia(Palette.Unknown));
             for (var k = 0; k < plane.Rows.Count; k++)
             {
-                var cell = plane.Cells[k];
-                bitmap.SetPixel((int)cell[0], ny - 1 - (int)cell[1], ToSkia(CellColor(table, plane.Rows[k], mode)));
+                var color = ToSkia(CellColor(table, plane.Rows[k], mode));
+                Paint(plane, k, nx, ny, (i, j) => bitmap.SetPixel(i, ny - 1 - j, color));
             }
 
             var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
@@ -169,7 +179,8 @@ public static class MapRenderer
         strip.Erase(ToSkia(Palette.Unknown));
         for (var k = 0; k < plane.Rows.Count; k++)
         {
-            strip.SetPixel((int)plane.Cells[k][0], 0, ToSkia(CellColor(table, plane.Rows[k], StripMode(mode))));
+            var color = ToSkia(CellColor(table, plane.Rows[k], StripMode(mode)));
+            Paint(plane, k, nx, 1, (i, _) => strip.SetPixel(i, 0, color));
         }
 
         var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
@@ -177,6 +188,25 @@ public static class MapRenderer
         AddLegend(plot, table, plane.Rows, StripMode(mode));
         plot.Axes.SetLimits(x0, x1, stripLow, high);
         Label(plot, x, $"{variable} (samples; strip: {Describe(StripMode(mode))})");
+    }
+
+    /// <summary>
+    /// Visits the cells row k covers: its own, or on a refined plane the block around it reaching halfway to its
+    /// neighbours of the same level. Rows are painted coarse level first, so finer points overwrite coarser blocks.
+    /// </summary>
+    private static void Paint(MapPlane plane, int k, int nx, int ny, Action<int, int> cell)
+    {
+        var at = plane.Cells[k];
+        var half = plane.Half?[k];
+        var (hx, hy) = (half?[0] ?? 0, half is { Length: > 1 } ? half[1] : 0);
+        var y = at.Length > 1 ? at[1] : 0;
+        for (var i = Math.Max(0, at[0] - hx); i <= Math.Min(nx - 1, at[0] + hx); i++)
+        {
+            for (var j = Math.Max(0, y - hy); j <= Math.Min(ny - 1, y + hy); j++)
+            {
+                cell((int)i, (int)j);
+            }
+        }
     }
 
     private static (int[,] Counts, int Most) Density(MapPlane plane, double[][] samples, int columns, int nx, double low, double high)

@@ -117,6 +117,34 @@ public sealed class MapRendererTests : IDisposable
         Tolerance(Math.Sqrt(0.7), labels.Known[5].State[0]);
     }
 
+    // Exact: the 2-cycle turns into a 4-cycle at r2 = 1 + √6 = 3.44949 ((f²)' = 4 + 2r − r² reaches −1). On a grid of
+    // spacing 0.02 the cell drawn at r = 3.441 belongs to the point r = 3.45 (period 4); refinement adds r = 3.44
+    // (period 2), whose finer cell then covers it — the map shows the boundary where it is.
+    [Fact]
+    public async Task RegimeMap_DrawsRefinedPointsAtTheFinestResolution()
+    {
+        var run = await TestRuns.CreateAsync(folder, TestRuns.Logistic("r = { from = 3.315, to = 3.515, steps = 11 }\nx = { values = [0.3, 0.6] }"));
+        var table = await RunTable.ReadAsync(run, samples: false);
+        var request = new MapRequest(ColorMode.Period, new Dictionary<string, double>());
+        var coarse = MapRenderer.Build(run, table, request, "logistic");
+        using var coarseImage = Decode(coarse.GetImageBytes(1000, 700, ImageFormat.Png));
+        AssertColor(coarseImage, coarse.GetPixel(new Coordinates(3.447, 0)), Palette.ForPeriod(4));
+
+        var reports = await Engine.Refinement.Refiner.RunAsync(run, 2, 1, null, CancellationToken.None);
+        Assert.Equal([1, 1], reports.Select(r => (int)Math.Min(r.Points, 1)));
+        var levels = new List<RunTable>();
+        for (var level = 1; level <= run.FinishedLevels(); level++)
+        {
+            levels.Add(await RunTable.ReadLevelAsync(run, level, samples: false));
+        }
+
+        var refined = MapRenderer.Build(run, table, request, "logistic", levels);
+        using var refinedImage = Decode(refined.GetImageBytes(1000, 700, ImageFormat.Png));
+        AssertColor(refinedImage, refined.GetPixel(new Coordinates(3.447, 0)), Palette.ForPeriod(2));
+        AssertColor(refinedImage, refined.GetPixel(new Coordinates(3.47, 1)), Palette.ForPeriod(4));
+        AssertColor(refinedImage, refined.GetPixel(new Coordinates(3.35, 1)), Palette.ForPeriod(2));
+    }
+
     private static void Tolerance(double expected, double actual) =>
         Assert.True(Math.Abs(expected - actual) <= 1e-9, $"expected {expected:R}, got {actual:R}");
 

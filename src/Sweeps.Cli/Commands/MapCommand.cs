@@ -43,10 +43,16 @@ internal static class MapCommand
             var request = new MapRequest(mode, MapSlices.Parse(parse.GetValue(slice) ?? []), w, h);
             var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
             var table = await RunTable.ReadAsync(run, samples: true, attractors: mode == ColorMode.Attractor, token);
+            var levels = new List<RunTable>();
+            for (var level = 1; level <= run.FinishedLevels(); level++)
+            {
+                levels.Add(await RunTable.ReadLevelAsync(run, level, samples: true, token));
+            }
+
             byte[] png;
             try
             {
-                png = MapRenderer.Render(run, table, request, Path.GetFileName(run.FullPath));
+                png = MapRenderer.Render(run, table, request, Path.GetFileName(run.FullPath), levels);
             }
             catch (ArgumentException error)
             {

@@ -35,7 +35,23 @@ public static class ChunkRunner
         return columns.Count;
     }
 
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    /// <summary>
+    /// Computes the listed points of <paramref name="spec"/> (whose grid may be a refinement lattice of the
+    /// run's) and writes them as a part under <paramref name="folder"/>, with its attractor part beside it.
+    /// </summary>
+    public static async Task RunPointsAsync(RunContext context, Specs.SweepSpec spec, long[] points, string folder, long part, CancellationToken token)
+    {
+        var path = Path.Combine(folder, "parts", $"part-{part:D6}.parquet");
+        if (File.Exists(path))
+        {
+            return;
+        }
+
+        var (columns, attractors) = ComputePoints(context, spec, points.Length, i => points[i], null, token);
+        await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
+        await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
+    }
+
     private static (ChunkColumns Points, AttractorColumns Attractors) Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
     {
         if (context.Spec.Grid.Follow is not null)
@@ -43,20 +59,27 @@ public static class ChunkRunner
             return ComputeLines(context, chunk, progress, token);
         }
 
-        var spec = context.Spec;
         var manifest = context.Run.Manifest;
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
+        return ComputePoints(context, context.Spec, (int)(last - first), i => first + i, progress, token);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
+        RunContext context, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+    {
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns((int)(last - first), spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators);
+        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var starts = spec.Starts is { } startSpec ? new Specs.StartSource(startSpec, dimension) : null;
         var outcomes = new PointResult[spec.StartCount];
         var pending = 0L;
-        for (var point = first; point < last; point++)
+        for (var i = 0; i < count; i++)
         {
+            var point = pointAt(i);
             source.Fill(point);
             IReadOnlyList<FoundAttractor> found;
             if (starts is null)

@@ -42,6 +42,21 @@ public sealed class RunDirectory
 
     public string AttractorPartPath(long chunk) => Path.Combine(AttractorPartsPath, $"part-{chunk:D6}.parquet");
 
+    /// <summary>Boundary refinement level ℓ ≥ 1: <c>levels/ℓ/</c>, with its own <c>parts/</c> and <c>attractors/</c>.</summary>
+    public string LevelPath(int level) => Path.Combine(FullPath, "levels", level.ToString(System.Globalization.CultureInfo.InvariantCulture));
+
+    /// <summary>The levels whose points are all computed (their <c>level.json</c> exists), in order from 1.</summary>
+    public int FinishedLevels()
+    {
+        var level = 0;
+        while (File.Exists(Path.Combine(LevelPath(level + 1), "level.json")))
+        {
+            level++;
+        }
+
+        return level;
+    }
+
     public bool IsDone(long chunk) => File.Exists(PartPath(chunk));
 
     public IReadOnlyList<long> MissingChunks()

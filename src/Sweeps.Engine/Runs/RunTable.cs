@@ -54,7 +54,14 @@ public sealed class RunTable
     public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, CancellationToken token = default) =>
         await ReadAsync(run, samples, attractors: false, token);
 
-    public static async Task<RunTable> ReadAsync(RunDirectory run, bool samples, bool attractors, CancellationToken token = default)
+    public static Task<RunTable> ReadAsync(RunDirectory run, bool samples, bool attractors, CancellationToken token = default) =>
+        ReadAsync(run, run.PartsPath, samples, attractors, token);
+
+    /// <summary>The points of refinement level <paramref name="level"/> (their point indices are on that level's lattice).</summary>
+    public static Task<RunTable> ReadLevelAsync(RunDirectory run, int level, bool samples, CancellationToken token = default) =>
+        ReadAsync(run, Path.Combine(run.LevelPath(level), "parts"), samples, attractors: false, token);
+
+    private static async Task<RunTable> ReadAsync(RunDirectory run, string folder, bool samples, bool attractors, CancellationToken token)
     {
         var axisNames = SpecFingerprintAxes(run);
         var points = new List<long>();
@@ -67,7 +74,8 @@ public sealed class RunTable
         var hysteresis = branches ? new List<bool>() : null;
         var backwardRows = branches && samples ? new List<double[]>() : null;
         var dimension = run.LoadSpec().Model.Variables.Count;
-        foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
+        var parts = Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
+        foreach (var part in parts)
         {
             await using var reader = await ParquetReader.CreateAsync(part, null, token);
             var fields = reader.Schema.DataFields;
@@ -116,6 +124,23 @@ public sealed class RunTable
             attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null,
             hysteresis is null ? null : Sorted(hysteresis),
             backwardRows is null ? null : Sorted(backwardRows));
+    }
+
+    /// <summary>
+    /// The rows of several tables one after another (for drawing refinement levels together). Point indices
+    /// keep their own tables' meaning; attractor labels and continuation columns are dropped.
+    /// </summary>
+    public static RunTable Merge(IReadOnlyList<RunTable> tables)
+    {
+        T[] All<T>(Func<RunTable, T[]> column) => tables.SelectMany(column).ToArray();
+        var samples = tables.All(t => t.Samples is not null) ? All(t => t.Samples!) : null;
+        return new RunTable(
+            All(t => t.Point),
+            Enumerable.Range(0, tables[0].Axes.Length).Select(a => All(t => t.Axes[a])).ToArray(),
+            All(t => t.Regime),
+            All(t => t.Period),
+            All(t => t.Lyapunov),
+            samples);
     }
 
     private static IReadOnlyList<string> SpecFingerprintAxes(RunDirectory run) =>
