@@ -14,7 +14,7 @@ namespace Sweeps.Core.Analysis;
 /// <param name="ZeroBand">An exponent within ±max(ZeroBand, its convergence error) counts as zero.</param>
 /// <param name="Samples">Number of attractor samples (last states) kept per point.</param>
 /// <param name="StepCheck">Flows: analyse every point again with half the step (a hundredth of the tolerances for Dormand–Prince); a different regime or period makes the point unresolved (reason "step").</param>
-/// <param name="Indicators">Also compute the 0–1 test, permutation entropy and Lempel–Ziv complexity of the first variable over the last measured iterations (maps), and say in the reason when they disagree with the exponents.</param>
+/// <param name="Indicators">Also compute the 0–1 test, permutation entropy and Lempel–Ziv complexity of the first variable over the last measured iterations (maps; flows: over the last section points or stroboscopic samples, of the first variable other than the section's), and say in the reason when they disagree with the exponents.</param>
 /// <param name="TransientCheck">Analyse every point a second time with twice the transient; a different regime or period then makes the point unresolved (reason "transient").</param>
 public sealed record AnalysisSettings(
     long Transient = 1000,

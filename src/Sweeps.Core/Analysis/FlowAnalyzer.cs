@@ -48,6 +48,11 @@ public sealed class FlowAnalyzer : IPointAnalyzer
     // The starting tangent frame is the same for every point: built once, copied per point.
     private readonly double[] frame;
 
+    // Indicators: the last recorded values (section points or stroboscopic samples) of one variable, as a ring.
+    private readonly double[] series;
+    private readonly int seriesVariable;
+    private long seriesCount;
+
     public FlowAnalyzer(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section)
     {
         if (model.Kind != ModelKind.Flow)
@@ -81,7 +86,14 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         times = new double[2 * settings.MaxPeriod];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
         frame = TangentFrame.Initial(n, vectors);
+        series = settings.Indicators ? new double[MapAnalyzer.IndicatorWindow] : [];
+
+        // On a section its own variable is constant: watch the first other one.
+        seriesVariable = model.UsesTime || n == 1 ? 0 : section.Variable == 0 ? 1 : 0;
     }
+
+    /// <summary>Fewest recorded values the indicators are computed from; with fewer they are NaN.</summary>
+    public const int IndicatorMinimum = 64;
 
     public bool Forced => forcingPeriod > 0;
 
@@ -94,6 +106,7 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         plainStepper.Reset();
         tangentStepper.Reset();
         detector.Reset();
+        seriesCount = 0;
         Array.Clear(sums);
         Array.Clear(firstHalf);
         if (!PointResult.Bounded(state, settings.Escape))
@@ -251,6 +264,12 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         var atRest = !Forced && Norm(slope) <= settings.Tolerance * (1 + Norm(state));
         var period = atRest ? 0 : detector.FindPeriod();
         var verdict = FlowClassifier.Decide(new FlowMeasurements(n, Forced, atRest, period, crossings, exponents, errors), settings);
+        var indicators = Indicators();
+        if (indicators?.Disagreement(verdict.Regime) is { } disagreement)
+        {
+            verdict = verdict with { Reason = verdict.Reason is null ? disagreement : $"{verdict.Reason}; {disagreement}" };
+        }
+
         var periodic = verdict.Regime == Regime.Periodic;
         var cycle = new List<double[]>();
         for (var i = detector.Count - period; periodic && i < detector.Count; i++)
@@ -270,7 +289,31 @@ public sealed class FlowAnalyzer : IPointAnalyzer
             verdict.Reason,
             Samples(),
             periodic ? PeriodTime(period) : double.NaN,
+            Indicators: indicators,
             Box: atRest ? StateBox.Point(state) : detector.Bounds(state));
+    }
+
+    /// <summary>The indicators of the recorded series, oldest value first; NaN when too few values were recorded.</summary>
+    private Core.Indicators.IndicatorValues? Indicators()
+    {
+        if (series.Length == 0)
+        {
+            return null;
+        }
+
+        var count = (int)Math.Min(seriesCount, series.Length);
+        if (count < IndicatorMinimum)
+        {
+            return new Core.Indicators.IndicatorValues(double.NaN, double.NaN, double.NaN);
+        }
+
+        var ordered = new double[count];
+        for (var i = 0; i < count; i++)
+        {
+            ordered[i] = series[(int)((seriesCount - count + i) % series.Length)];
+        }
+
+        return Core.Indicators.IndicatorValues.Of(ordered);
     }
 
     /// <summary>The cycle's duration, averaged over as many whole cycles as the recorded returns hold.</summary>
@@ -291,6 +334,11 @@ public sealed class FlowAnalyzer : IPointAnalyzer
     private void Record(double[] point, double time)
     {
         detector.Push(point.AsSpan(0, n));
+        if (series.Length > 0)
+        {
+            series[(int)(seriesCount++ % series.Length)] = point[seriesVariable];
+        }
+
         times[(int)((detector.Pushed - 1) % times.Length)] = time;
     }
 

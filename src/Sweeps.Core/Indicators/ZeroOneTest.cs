@@ -25,6 +25,20 @@ public static class ZeroOneTest
         }
 
         mean /= n;
+
+        // A constant series (a fixed point, or a cycle seen once per period) is regular: K = 0. The test's
+        // displacement would be rounding noise, whose correlation with time is arbitrary.
+        var spread = 0.0;
+        foreach (var value in series)
+        {
+            spread = Math.Max(spread, Math.Abs(value - mean));
+        }
+
+        if (spread <= 1e-9 * (1 + Math.Abs(mean)))
+        {
+            return 0;
+        }
+
         var random = new Random(2004);
         var results = new double[Frequencies];
         var p = new double[n + 1];

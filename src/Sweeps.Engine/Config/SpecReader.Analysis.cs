@@ -51,7 +51,7 @@ public static partial class SpecReader
             ZeroBand: reader.Number(table, "zero_band", z => z >= 0 && z < 1, "0 ≤ zero_band < 1") ?? defaults.ZeroBand,
             Samples: samples,
             TransientCheck: reader.Boolean(table, "transient_check") ?? defaults.TransientCheck,
-            Indicators: ReadIndicators(reader, table, kind),
+            Indicators: reader.Boolean(table, "indicators") ?? defaults.Indicators,
             StepCheck: ReadStepCheck(reader, table, kind));
     }
 
@@ -61,18 +61,6 @@ public static partial class SpecReader
         if (wanted && kind == ModelKind.Map)
         {
             reader.Problem(table.Find("step_check")!.Value.Position, "analysis.step_check: maps have no integration step (try transient_check)");
-            return false;
-        }
-
-        return wanted;
-    }
-
-    private static bool ReadIndicators(ConfigReader reader, ConfigTable table, ModelKind kind)
-    {
-        var wanted = reader.Boolean(table, "indicators") ?? false;
-        if (wanted && kind == ModelKind.Flow)
-        {
-            reader.Problem(table.Find("indicators")!.Value.Position, "analysis.indicators: the second-opinion indicators are computed for maps only in this version");
             return false;
         }
 

@@ -79,4 +79,27 @@ public sealed class IndicatorTests
         Assert.Null(periodic.Reason);
         Assert.Null(new Sweeps.Core.Analysis.MapAnalyzer(Maps.Logistic(), settings with { Indicators = false }).Analyze([0.3], [4.0]).Indicators);
     }
+
+    // Flows give their second opinion on the section points. Lorenz at σ = 10, ρ = 28, β = 8/3 is chaotic
+    // (E. N. Lorenz, J. Atmos. Sci. 20 (1963) 130–141): K near 1. The Van der Pol limit cycle at μ = 1 crosses the
+    // section at one point (common practice: a cycle of period 1 in section returns): a constant series, K = 0.
+    [Fact]
+    public void FlowAnalyzer_ComputesIndicatorsOnTheSectionPoints_ThatAgreeWithTheExponent()
+    {
+        var integrator = new Sweeps.Core.Integrators.IntegratorSettings(Sweeps.Core.Integrators.IntegratorMethod.Rk4, 0.005);
+        var settings = new Sweeps.Core.Analysis.AnalysisSettings(Transient: 50, Measure: 1500, Tolerance: 1e-6, ZeroBand: 0.01, Indicators: true);
+        var lorenz = Maps.Build(Sweeps.Core.Models.ModelKind.Flow, ["x", "y", "z"], ["sigma", "rho", "beta"], "sigma*(y - x)", "x*(rho - z) - y", "x*y - beta*z");
+        var section = new Sweeps.Core.Analysis.SectionSettings(2, 27, Sweeps.Core.Analysis.SectionDirection.Up);
+        var chaotic = new Sweeps.Core.Analysis.FlowAnalyzer(lorenz, settings, integrator, section).Analyze([1, 1, 1], [10, 28, 8.0 / 3]);
+        Assert.Equal(Sweeps.Core.Analysis.Regime.Chaotic, chaotic.Regime);
+        Assert.InRange(chaotic.Indicators!.K, 0.8, 1.01);
+        Assert.Null(chaotic.Reason);
+
+        var vanDerPol = Maps.Build(Sweeps.Core.Models.ModelKind.Flow, ["x", "v"], ["mu"], "v", "mu*(1 - x^2)*v - x");
+        var cycle = new Sweeps.Core.Analysis.FlowAnalyzer(vanDerPol, settings with { Transient = 100, Measure = 1000 }, integrator, new Sweeps.Core.Analysis.SectionSettings())
+            .Analyze([2, 0], [1]);
+        Assert.Equal(Sweeps.Core.Analysis.Regime.Periodic, cycle.Regime);
+        Assert.Equal(0, cycle.Indicators!.K);
+        Assert.Null(cycle.Reason);
+    }
 }
