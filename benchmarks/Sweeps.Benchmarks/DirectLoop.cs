@@ -21,15 +21,42 @@ internal static class DirectLoop
         var clock = Stopwatch.StartNew();
         var threads = Enumerable.Range(0, workers).Select(w => new Thread(() =>
         {
-            var analyzer = AnalyzerFactory.Create(spec, model);
             var source = new PointSource(spec);
             var (first, last) = (points * w / workers, points * (w + 1) / workers);
             var sum = 0.0;
-            for (var point = first; point < last; point++)
+            static double Check(PointResult result) =>
+                result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
+            if (spec.Starts is null && !spec.Analysis.TransientCheck && Sweeps.Core.Kernels.MapBlockAnalyzer.Supports(model, spec.Analysis))
             {
-                source.Fill(point);
-                var result = analyzer.Analyze(source.Initial, source.Parameters);
-                sum += result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
+                // The block kernel, as chunks use it.
+                var block = new Sweeps.Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
+                var size = Sweeps.Core.Kernels.MapBlockAnalyzer.BlockSize;
+                var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
+                for (var point = first; point < last; point += size)
+                {
+                    var lanes = (int)Math.Min(size, last - point);
+                    for (var j = 0; j < lanes; j++)
+                    {
+                        source.Fill(point + j);
+                        initial[j] = source.Initial.ToArray();
+                        parameters[j] = source.Parameters.ToArray();
+                    }
+
+                    block.Analyze(initial, parameters, lanes, results);
+                    for (var j = 0; j < lanes; j++)
+                    {
+                        sum += Check(results[j]);
+                    }
+                }
+            }
+            else
+            {
+                var analyzer = AnalyzerFactory.Create(spec, model);
+                for (var point = first; point < last; point++)
+                {
+                    source.Fill(point);
+                    sum += Check(analyzer.Analyze(source.Initial, source.Parameters));
+                }
             }
 
             checksums[w] = sum;

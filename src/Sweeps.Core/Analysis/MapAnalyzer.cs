@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using Sweeps.Core.Models;
 
 namespace Sweeps.Core.Analysis;
@@ -228,6 +229,26 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private bool AdvanceTangent()
     {
+        if (n == 1)
+        {
+            // One variable: the tangent is a number and its growth is |f'| itself — no normalisation needed.
+            var growth = Math.Abs(jacobian[0]);
+            if (!double.IsFinite(growth))
+            {
+                return false;
+            }
+
+            var product = products[0] * growth;
+            products[0] = product;
+            if (!(product is > SafeLow and < SafeHigh))
+            {
+                sums[0] += Log(product);
+                products[0] = 1;
+            }
+
+            return true;
+        }
+
         for (var c = 0; c < vectors; c++)
         {
             for (var i = 0; i < n; i++)
@@ -254,7 +275,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             // the product leaves a safe range): one log per 16 steps instead of one per step.
             var running = products[c] * norms[c];
             products[c] = running;
-            if (!(running is > 1e-280 and < 1e280))
+            if (!(running is > SafeLow and < SafeHigh))
             {
                 sums[c] += Math.Log(running);
                 products[c] = 1;
@@ -269,10 +290,54 @@ public sealed class MapAnalyzer : IPointAnalyzer
     {
         for (var c = 0; c < vectors; c++)
         {
-            sums[c] += Math.Log(products[c]);
+            sums[c] += n == 1 ? Log(products[c]) : Math.Log(products[c]);
             products[c] = 1;
         }
     }
+
+    /// <summary>The running product of tangent growths is renormalised (its logarithm taken) when it leaves this range.</summary>
+    internal const double SafeLow = 1e-280;
+
+    internal const double SafeHigh = 1e280;
+
+    /// <summary>
+    /// Steps between logarithms of the running product; the block kernel (<see cref="Kernels.MapBlockAnalyzer"/>)
+    /// takes them at the same steps, so that both give the same exponent bit for bit.
+    /// </summary>
+    internal const int FlushInterval = FlushEvery;
+
+    /// <summary>
+    /// The natural logarithm used for one-variable maps: the vectorised one, element by element (its result does
+    /// not depend on the lane or the vector width), so the block kernel, which takes it on whole vectors, agrees
+    /// with this path bit for bit.
+    /// </summary>
+    internal static double Log(double value) => Vector256.Log(Vector256.Create(value)).ToScalar();
+
+    /// <summary>
+    /// Classifies a one-variable orbit computed elsewhere (by the block kernel): the sum of the logarithms of the
+    /// tangent growth over the measurement and over its first half, the last recorded states (oldest first) and
+    /// the final state. Gives exactly what <see cref="Analyze"/> gives for the same orbit.
+    /// </summary>
+    internal PointResult Finish(double sum, double firstHalfSum, ReadOnlySpan<double> window, double final, double[] parameters)
+    {
+        x[0] = final;
+        if (vectors > 0)
+        {
+            sums[0] = sum;
+            firstHalf[0] = firstHalfSum;
+        }
+
+        detector.Reset();
+        for (var i = 0; i < window.Length; i++)
+        {
+            detector.Push(window.Slice(i, 1));
+        }
+
+        return Classify(parameters, 0);
+    }
+
+    /// <summary>How many of the last measured states the period test keeps (2 · max period).</summary>
+    internal int WindowLength => detector.Capacity;
 
 
 

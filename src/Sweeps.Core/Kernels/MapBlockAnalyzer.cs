@@ -1,0 +1,199 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Core.Kernels;
+
+/// <summary>
+/// Analyses one-variable map points 32 at a time with <see cref="MapKernel"/>, giving exactly the results of
+/// <see cref="MapAnalyzer"/>: the same orbit, the same logarithms of the running product at the same steps
+/// (every <see cref="MapAnalyzer.FlushInterval"/> steps and at half the measurement), the same recorded window
+/// and the same classification. Points the kernel flags (escape, non-finite values, a product outside the safe
+/// range — superstable orbits among them) are analysed again by the scalar analyzer. One per thread.
+/// </summary>
+public sealed class MapBlockAnalyzer
+{
+    private const int Lanes = MapKernel.Lanes;
+    private const int Groups = MapKernel.Groups;
+    private const int Width = MapKernel.Width;
+
+    private readonly MapAnalyzer scalar;
+    private readonly AnalysisSettings settings;
+    private readonly MapKernel kernel;
+    private readonly int parameterCount;
+    private readonly bool exponents;
+    private readonly Vector256<double>[] x = new Vector256<double>[Groups];
+    private readonly Vector256<double>[] p;
+    private readonly Vector256<double>[] product = new Vector256<double>[Groups];
+    private readonly Vector256<double>[] flagged = new Vector256<double>[Groups];
+    private readonly Vector256<double>[] sums = new Vector256<double>[Groups];
+    private readonly Vector256<double>[] firstHalf = new Vector256<double>[Groups];
+    private readonly double[] window;
+
+    public MapBlockAnalyzer(Model model, AnalysisSettings settings)
+    {
+        if (!Supports(model, settings))
+        {
+            throw new ArgumentException("the block analyzer takes one-variable maps without indicators", nameof(model));
+        }
+
+        this.settings = settings;
+        scalar = new MapAnalyzer(model, settings);
+        kernel = new MapKernel(model, settings.Escape, MapAnalyzer.SafeLow, MapAnalyzer.SafeHigh);
+        parameterCount = model.Source.Parameters.Count;
+        exponents = settings.Lyapunov != LyapunovMode.None;
+        p = new Vector256<double>[Math.Max(1, parameterCount * Groups)];
+        window = new double[scalar.WindowLength * Lanes];
+    }
+
+    /// <summary>Points per block.</summary>
+    public const int BlockSize = Lanes;
+
+    /// <summary>Whether the block analyzer applies: a one-variable map, no indicators, on a machine with 256-bit vectors.</summary>
+    public static bool Supports(Model model, AnalysisSettings settings) =>
+        model.Kind == ModelKind.Map && model.Dimension == 1 && !settings.Indicators && Vector256.IsHardwareAccelerated;
+
+    /// <summary>The scalar analyzer behind it (same model and settings), for single points.</summary>
+    public MapAnalyzer Scalar => scalar;
+
+    /// <summary>
+    /// Analyses <paramref name="count"/> ≤ 32 points: <paramref name="initial"/>[i] and <paramref name="parameters"/>[i]
+    /// describe point i; its result goes to <paramref name="results"/>[i].
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results)
+    {
+        Load(initial, parameters, count);
+        var measure = settings.Measure;
+        var half = measure / 2;
+        var capacity = scalar.WindowLength;
+        var recordFrom = measure - capacity;
+        if (settings.Transient > 0)
+        {
+            Advance(kernel.Transient, settings.Transient);
+        }
+
+        Array.Fill(product, Vector256<double>.One);
+        Array.Clear(sums);
+        Array.Clear(firstHalf);
+        var step = 0L;
+        while (step < measure)
+        {
+            // The next step at which something happens: a logarithm, the half, or recording the window.
+            var next = Math.Min(measure, ((step / MapAnalyzer.FlushInterval) + 1) * MapAnalyzer.FlushInterval);
+            if (step < half)
+            {
+                next = Math.Min(next, half);
+            }
+
+            next = step >= recordFrom ? step + 1 : Math.Min(next, recordFrom);
+            Advance(exponents ? kernel.Measure : kernel.Transient, next - step);
+            step = next;
+            if (exponents && step % MapAnalyzer.FlushInterval == 0)
+            {
+                Flush();
+            }
+
+            if (step == half)
+            {
+                if (exponents)
+                {
+                    Flush();
+                }
+
+                Array.Copy(sums, firstHalf, Groups);
+            }
+
+            if (step > recordFrom)
+            {
+                Record((int)(step - Math.Max(recordFrom, 0) - 1));
+            }
+        }
+
+        if (exponents)
+        {
+            Flush();
+        }
+
+        Finish(initial, parameters, count, (int)Math.Min(measure, capacity), results);
+    }
+
+    private void Load(double[][] initial, double[][] parameters, int count)
+    {
+        Array.Clear(flagged);
+        for (var g = 0; g < Groups; g++)
+        {
+            x[g] = Vector256.Create(Value(initial, count, g, 0, 0), Value(initial, count, g, 1, 0), Value(initial, count, g, 2, 0), Value(initial, count, g, 3, 0));
+            for (var k = 0; k < parameterCount; k++)
+            {
+                p[(k * Groups) + g] = Vector256.Create(Value(parameters, count, g, 0, k), Value(parameters, count, g, 1, k), Value(parameters, count, g, 2, k), Value(parameters, count, g, 3, k));
+            }
+
+            var bounded = Vector256.LessThanOrEqual(Vector256.Abs(x[g]), Vector256.Create(settings.Escape));
+            flagged[g] = Vector256.OnesComplement(bounded);
+        }
+    }
+
+    /// <summary>Lanes beyond the block's points repeat its first point (their results are not used).</summary>
+    private static double Value(double[][] values, int count, int group, int element, int index)
+    {
+        var point = (group * Width) + element;
+        return values[point < count ? point : 0][index];
+    }
+
+    private void Advance(BlockSteps steps, long count)
+    {
+        while (count > 0)
+        {
+            var chunk = (int)Math.Min(count, int.MaxValue);
+            steps(x, p, product, flagged, chunk);
+            count -= chunk;
+        }
+    }
+
+    private void Flush()
+    {
+        for (var g = 0; g < Groups; g++)
+        {
+            sums[g] += Vector256.Log(product[g]);
+            product[g] = Vector256<double>.One;
+        }
+    }
+
+    private void Record(int slot)
+    {
+        for (var g = 0; g < Groups; g++)
+        {
+            for (var e = 0; e < Width; e++)
+            {
+                window[(((g * Width) + e) * scalar.WindowLength) + slot] = x[g].GetElement(e);
+            }
+        }
+    }
+
+    private void Finish(double[][] initial, double[][] parameters, int count, int recorded, PointResult[] results)
+    {
+        for (var i = 0; i < count; i++)
+        {
+            var (g, e) = (i / Width, i % Width);
+            if (flagged[g].GetElement(e) != 0)
+            {
+                results[i] = Careful(initial[i], parameters[i]);
+                continue;
+            }
+
+            var orbit = window.AsSpan(i * scalar.WindowLength, recorded);
+            results[i] = scalar.Finish(sums[g].GetElement(e), firstHalf[g].GetElement(e), orbit, x[g].GetElement(e), parameters[i]);
+        }
+    }
+
+    private PointResult Careful(double[] initial, double[] parameters)
+    {
+        Rechecked++;
+        return scalar.Analyze(initial, parameters);
+    }
+
+    /// <summary>Points the kernel flagged and the scalar analyzer computed (a count since construction).</summary>
+    public long Rechecked { get; private set; }
+}

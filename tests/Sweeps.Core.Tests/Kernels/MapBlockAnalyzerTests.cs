@@ -1,0 +1,80 @@
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Kernels;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Core.Tests.Kernels;
+
+/// <summary>
+/// The block kernel against the scalar analyzer: for every point, the same result bit for bit — regime, period,
+/// exponents and their errors, final state, cycle, samples, box and reason — including points the kernel hands
+/// back to the scalar path (escapes, superstable orbits, non-finite values).
+/// </summary>
+public sealed class MapBlockAnalyzerTests
+{
+    public static TheoryData<string, string, double, double, double> Cases() => new()
+    {
+        // model, equation, parameter range, initial x
+        { "logistic", "r*x*(1 - x)", 2.5, 4.2, 0.3 },
+        { "logistic, superstable r = 2", "r*x*(1 - x)", 1.9, 2.1, 0.3 },
+        { "cubic", "r*x - x^3", 1.0, 3.2, 0.4 },
+        { "sine", "r*sin(pi*x)", 0.6, 1.0, 0.2 },
+        { "gauss", "exp(-6.2*x^2) + r", -1.0, 1.0, 0.1 },
+        { "reciprocal", "r - 1/(x^2 + 1) + x^(-2)/50", 0.5, 2.0, 0.7 },
+        { "power", "r*x^1.5*(1 - x)", 3.0, 5.0, 0.6 },
+    };
+
+    [Theory]
+    [MemberData(nameof(Cases))]
+    public void Block_GivesTheScalarResult_BitForBit(string name, string equation, double from, double to, double start)
+    {
+        var model = Maps.Map(["x"], ["r"], equation);
+        foreach (var settings in new[]
+        {
+            new AnalysisSettings(Transient: 500, Measure: 700, Lyapunov: LyapunovMode.Largest, MaxPeriod: 32, Samples: 8),
+            new AnalysisSettings(Transient: 0, Measure: 50, Lyapunov: LyapunovMode.Spectrum, MaxPeriod: 64, Samples: 16),
+            new AnalysisSettings(Transient: 300, Measure: 256, Lyapunov: LyapunovMode.None, MaxPeriod: 16, Samples: 4),
+        })
+        {
+            var block = new MapBlockAnalyzer(model, settings);
+            var reference = new MapAnalyzer(model, settings);
+            const int points = 77;
+            var initial = new double[MapBlockAnalyzer.BlockSize][];
+            var parameters = new double[MapBlockAnalyzer.BlockSize][];
+            var results = new PointResult[MapBlockAnalyzer.BlockSize];
+            for (var first = 0; first < points; first += MapBlockAnalyzer.BlockSize)
+            {
+                var count = Math.Min(MapBlockAnalyzer.BlockSize, points - first);
+                for (var i = 0; i < count; i++)
+                {
+                    initial[i] = [start];
+                    parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
+                }
+
+                block.Analyze(initial, parameters, count, results);
+                for (var i = 0; i < count; i++)
+                {
+                    Same(reference.Analyze(initial[i], parameters[i]), results[i], $"{name}, r = {parameters[i][0]:R}, {settings}");
+                }
+            }
+
+            // Not a comparison of the scalar path with itself: most points went through the kernel.
+            Assert.True(block.Rechecked < points / 2, $"{name}: {block.Rechecked} of {points} points were handed to the scalar path");
+        }
+    }
+
+    private static void Same(PointResult expected, PointResult actual, string where)
+    {
+        Assert.True(expected.Regime == actual.Regime && expected.Period == actual.Period, $"{where}: {expected.Regime}/{expected.Period} vs {actual.Regime}/{actual.Period}");
+        Assert.True(Bits(expected.Lyapunov) == Bits(actual.Lyapunov), $"{where}: exponents {Bits(expected.Lyapunov)} vs {Bits(actual.Lyapunov)}");
+        Assert.True(Bits(expected.LyapunovError) == Bits(actual.LyapunovError), $"{where}: errors");
+        Assert.True(Bits([expected.LogDetMean]) == Bits([actual.LogDetMean]), $"{where}: mean log det");
+        Assert.True(Bits(expected.FinalState) == Bits(actual.FinalState), $"{where}: final state");
+        Assert.True(Bits(expected.Samples) == Bits(actual.Samples), $"{where}: samples");
+        Assert.True(Bits(expected.Cycle.SelectMany(c => c).ToArray()) == Bits(actual.Cycle.SelectMany(c => c).ToArray()), $"{where}: cycle");
+        Assert.True(expected.Reason == actual.Reason, $"{where}: reason '{expected.Reason}' vs '{actual.Reason}'");
+        Assert.True(Bits(expected.Box?.Low ?? []) == Bits(actual.Box?.Low ?? []) && Bits(expected.Box?.High ?? []) == Bits(actual.Box?.High ?? []), $"{where}: box");
+        Assert.Equal(expected.DivergedAt, actual.DivergedAt);
+    }
+
+    private static string Bits(double[] values) => string.Join(",", values.Select(v => BitConverter.DoubleToInt64Bits(v).ToString("x16")));
+}
