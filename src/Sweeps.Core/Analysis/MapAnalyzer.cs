@@ -148,6 +148,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return Classify(parameters, logDetSum);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private PointResult Classify(double[] parameters, double logDetSum)
     {
         var (exponents, errors) = Exponents();
@@ -182,6 +183,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             Box: detector.Bounds(x));
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private (double[] Exponents, double[] Errors) Exponents()
     {
         var exponents = new double[vectors];
@@ -199,6 +201,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     }
 
     /// <summary>Spectral radius of the product of Jacobians around the cycle (its Floquet multiplier).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double CycleMultiplier(List<double[]> cycle, double[] parameters)
     {
         var monodromy = new double[n * n];
@@ -318,6 +321,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     /// tangent growth over the measurement and over its first half, the last recorded states (oldest first) and
     /// the final state. Gives exactly what <see cref="Analyze"/> gives for the same orbit.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal PointResult Finish(double sum, double firstHalfSum, ReadOnlySpan<double> window, double final, double[] parameters)
     {
         x[0] = final;
@@ -327,11 +331,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             firstHalf[0] = firstHalfSum;
         }
 
-        detector.Reset();
-        for (var i = 0; i < window.Length; i++)
-        {
-            detector.Push(window.Slice(i, 1));
-        }
+        detector.Load(window);
 
         return Classify(parameters, 0);
     }

@@ -14,6 +14,7 @@ public static class MapClassifier
 {
     private const double UnstableMargin = 1e-6;
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static Verdict Decide(int period, double multiplier, double[] exponents, double[] errors, AnalysisSettings settings)
     {
         if (period > 0)

@@ -23,7 +23,11 @@ internal sealed class PeriodDetector
         this.maxPeriod = maxPeriod;
         this.tolerance = tolerance;
         ring = new double[2 * maxPeriod * dimension];
+        line = new double[ring.Length];
     }
+
+    // The window in time order, rebuilt by FindPeriod so that its comparisons index plainly (no ring arithmetic).
+    private readonly double[] line;
 
     public int Capacity => 2 * maxPeriod;
 
@@ -37,6 +41,17 @@ internal sealed class PeriodDetector
         count = 0;
         next = 0;
         Pushed = 0;
+    }
+
+    /// <summary>Resets and stores <paramref name="states"/> (row-major, at most <see cref="Capacity"/> states, oldest first), as pushes would.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public void Load(ReadOnlySpan<double> states)
+    {
+        var stored = states.Length / n;
+        states.CopyTo(ring);
+        count = stored;
+        next = stored % Capacity;
+        Pushed = stored;
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -57,6 +72,7 @@ internal sealed class PeriodDetector
     }
 
     /// <summary>The last min(<paramref name="count"/>, Count) states, oldest first, row-major.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public double[] Last(int count)
     {
         count = Math.Min(count, this.count);
@@ -70,6 +86,7 @@ internal sealed class PeriodDetector
     }
 
     /// <summary>The smallest box holding every stored state, or the point <paramref name="fallback"/> when none is stored.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public StateBox Bounds(ReadOnlySpan<double> fallback)
     {
         if (count == 0)
@@ -79,14 +96,18 @@ internal sealed class PeriodDetector
 
         var low = State(0).ToArray();
         var high = low.ToArray();
-        for (var i = 1; i < count; i++)
+        for (var j = 0; j < n; j++)
         {
-            var state = State(i);
-            for (var j = 0; j < n; j++)
+            // The first count·n slots of the ring hold the stored states; their order does not matter for a box.
+            var (least, most) = (low[j], high[j]);
+            for (var i = j; i < count * n; i += n)
             {
-                low[j] = Math.Min(low[j], state[j]);
-                high[j] = Math.Max(high[j], state[j]);
+                var value = ring[i];
+                least = value < least ? value : least;
+                most = value > most ? value : most;
             }
+
+            (low[j], high[j]) = (least, most);
         }
 
         return new StateBox(low, high);
@@ -96,9 +117,10 @@ internal sealed class PeriodDetector
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public int FindPeriod()
     {
+        Linearize();
         for (var p = 1; 2 * p <= count; p++)
         {
-            if (Deviation(p, tolerance) <= tolerance)
+            if (Repeats(p, tolerance))
             {
                 return Smallest(p);
             }
@@ -113,12 +135,13 @@ internal sealed class PeriodDetector
     /// genuine cycle are macroscopically apart, so a divisor q of p whose returns already agree to
     /// √tolerance is the real period (this only merges cycles born within ~tolerance of a doubling).
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private int Smallest(int p)
     {
         var loose = Math.Sqrt(tolerance);
         for (var q = 1; q < p; q++)
         {
-            if (p % q == 0 && Deviation(q, loose) <= loose)
+            if (p % q == 0 && Repeats(q, loose))
             {
                 return q;
             }
@@ -127,27 +150,30 @@ internal sealed class PeriodDetector
         return p;
     }
 
-    /// <summary>Largest relative difference between states p steps apart in the window; stops early once above <paramref name="limit"/>.</summary>
+    /// <summary>Whether every state in the window equals the one p steps earlier: |a − b| ≤ limit · (1 + max(|a|, |b|)) for every component.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private double Deviation(int p, double limit)
+    private bool Repeats(int p, double limit)
     {
-        var worst = 0.0;
-        for (var i = count - 1; i >= p; i--)
+        var values = line;
+        for (var i = (count * n) - 1; i >= p * n; i--)
         {
-            var a = State(i);
-            var b = State(i - p);
-            for (var j = 0; j < n; j++)
+            var (a, b) = (values[i], values[i - (p * n)]);
+            if (!(Math.Abs(a - b) <= limit * (1.0 + Math.Max(Math.Abs(a), Math.Abs(b)))))
             {
-                var deviation = Math.Abs(a[j] - b[j]) / (1.0 + Math.Max(Math.Abs(a[j]), Math.Abs(b[j])));
-                if (!(deviation <= limit))
-                {
-                    return double.PositiveInfinity;
-                }
-
-                worst = Math.Max(worst, deviation);
+                return false;
             }
         }
 
-        return worst;
+        return true;
+    }
+
+    /// <summary>Copies the stored states, oldest first, into <see cref="line"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Linearize()
+    {
+        var start = (next - count + Capacity) % Capacity;
+        var first = Math.Min(count, Capacity - start);
+        Array.Copy(ring, start * n, line, 0, first * n);
+        Array.Copy(ring, 0, line, first * n, (count - first) * n);
     }
 }

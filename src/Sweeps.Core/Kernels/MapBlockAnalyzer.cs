@@ -30,6 +30,7 @@ public sealed class MapBlockAnalyzer
     private readonly Vector256<double>[] sums = new Vector256<double>[Groups];
     private readonly Vector256<double>[] firstHalf = new Vector256<double>[Groups];
     private readonly double[] window;
+    private readonly double[] orbit;
 
     public MapBlockAnalyzer(Model model, AnalysisSettings settings)
     {
@@ -45,6 +46,7 @@ public sealed class MapBlockAnalyzer
         exponents = settings.Lyapunov != LyapunovMode.None;
         p = new Vector256<double>[Math.Max(1, parameterCount * Groups)];
         window = new double[scalar.WindowLength * Lanes];
+        orbit = new double[scalar.WindowLength];
     }
 
     /// <summary>Points per block.</summary>
@@ -87,8 +89,18 @@ public sealed class MapBlockAnalyzer
                 next = Math.Min(next, half);
             }
 
-            next = step >= recordFrom ? step + 1 : Math.Min(next, recordFrom);
-            Advance(exponents ? kernel.Measure : kernel.Transient, next - step);
+            if (step < recordFrom)
+            {
+                next = Math.Min(next, recordFrom);
+                Advance(exponents ? kernel.Measure : kernel.Transient, next - step);
+            }
+            else
+            {
+                // Recording: the kernel stores each state, slot-major, from this step's slot on.
+                var recording = exponents ? kernel.RecordMeasure : kernel.RecordPlain;
+                recording(x, p, product, flagged, (int)(next - step), window, (int)(step - Math.Max(recordFrom, 0)));
+            }
+
             step = next;
             if (exponents && step % MapAnalyzer.FlushInterval == 0)
             {
@@ -105,10 +117,6 @@ public sealed class MapBlockAnalyzer
                 Array.Copy(sums, firstHalf, Groups);
             }
 
-            if (step > recordFrom)
-            {
-                Record((int)(step - Math.Max(recordFrom, 0) - 1));
-            }
         }
 
         if (exponents)
@@ -119,6 +127,7 @@ public sealed class MapBlockAnalyzer
         Finish(initial, parameters, count, (int)Math.Min(measure, capacity), results);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Load(double[][] initial, double[][] parameters, int count)
     {
         Array.Clear(flagged);
@@ -152,6 +161,7 @@ public sealed class MapBlockAnalyzer
         }
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Flush()
     {
         for (var g = 0; g < Groups; g++)
@@ -161,17 +171,7 @@ public sealed class MapBlockAnalyzer
         }
     }
 
-    private void Record(int slot)
-    {
-        for (var g = 0; g < Groups; g++)
-        {
-            for (var e = 0; e < Width; e++)
-            {
-                window[(((g * Width) + e) * scalar.WindowLength) + slot] = x[g].GetElement(e);
-            }
-        }
-    }
-
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Finish(double[][] initial, double[][] parameters, int count, int recorded, PointResult[] results)
     {
         for (var i = 0; i < count; i++)
@@ -183,8 +183,12 @@ public sealed class MapBlockAnalyzer
                 continue;
             }
 
-            var orbit = window.AsSpan(i * scalar.WindowLength, recorded);
-            results[i] = scalar.Finish(sums[g].GetElement(e), firstHalf[g].GetElement(e), orbit, x[g].GetElement(e), parameters[i]);
+            for (var slot = 0; slot < recorded; slot++)
+            {
+                orbit[slot] = window[(slot * Lanes) + i];
+            }
+
+            results[i] = scalar.Finish(sums[g].GetElement(e), firstHalf[g].GetElement(e), orbit.AsSpan(0, recorded), x[g].GetElement(e), parameters[i]);
         }
     }
 

@@ -14,6 +14,9 @@ namespace Sweeps.Core.Kernels;
 /// </summary>
 internal delegate void BlockSteps(Vector256<double>[] x, Vector256<double>[] parameters, Vector256<double>[] product, Vector256<double>[] flagged, int steps);
 
+/// <summary>As <see cref="BlockSteps"/>, and after each step the 32 states are stored at window[(slot + step) · 32 …] (slot-major).</summary>
+internal delegate void RecordingSteps(Vector256<double>[] x, Vector256<double>[] parameters, Vector256<double>[] product, Vector256<double>[] flagged, int steps, double[] window, int slot);
+
 /// <summary>
 /// Run-time generated loops for one-variable maps (System.Linq.Expressions → JIT, full optimisation at once):
 /// the whole step loop for 32 orbits side by side, eight independent Vector256 chains, so the vector units and
@@ -39,6 +42,9 @@ internal sealed class MapKernel
     private static readonly MethodInfo OnesComplement = Generic(nameof(Vector256.OnesComplement), 1);
     private static readonly MethodInfo GetElement = Generic(nameof(Vector256.GetElement), 2);
     private static readonly MethodInfo Create = typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double), typeof(double), typeof(double), typeof(double)])!;
+    private static readonly MethodInfo CopyTo = typeof(Vector256).GetMethods(BindingFlags.Public | BindingFlags.Static)
+        .First(m => m.Name == nameof(Vector256.CopyTo) && m.IsGenericMethodDefinition && m.GetParameters().Length == 3 && m.GetParameters()[1].ParameterType.IsArray)
+        .MakeGenericMethod(typeof(double));
     private static readonly MethodInfo Broadcast = typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double)])!;
 
     public MapKernel(Model model, double escape, double safeLow, double safeHigh)
@@ -48,9 +54,17 @@ internal sealed class MapKernel
             throw new ArgumentException("the block kernel is for one-variable maps", nameof(model));
         }
 
-        Transient = Build(model, escape, safeLow, safeHigh, derivative: false);
-        Measure = Build(model, escape, safeLow, safeHigh, derivative: true);
+        Transient = Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: false, record: false);
+        Measure = Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: true, record: false);
+        RecordPlain = Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: false, record: true);
+        RecordMeasure = Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: true, record: true);
     }
+
+    /// <summary><see cref="Transient"/>, recording each state.</summary>
+    public RecordingSteps RecordPlain { get; }
+
+    /// <summary><see cref="Measure"/>, recording each state.</summary>
+    public RecordingSteps RecordMeasure { get; }
 
     /// <summary>x ← f(x), flagging lanes that leave ±escape.</summary>
     public BlockSteps Transient { get; }
@@ -58,8 +72,10 @@ internal sealed class MapKernel
     /// <summary>product ← product·|f'(x)|, then x ← f(x); flags lanes whose product leaves the safe range or whose x escapes.</summary>
     public BlockSteps Measure { get; }
 
-    private static BlockSteps Build(Model model, double escape, double safeLow, double safeHigh, bool derivative)
+    private static TDelegate Build<TDelegate>(Model model, double escape, double safeLow, double safeHigh, bool derivative, bool record)
     {
+        var window = LinqExpression.Parameter(typeof(double[]), "window");
+        var slot = LinqExpression.Parameter(typeof(int), "slot");
         var x = LinqExpression.Parameter(typeof(Vector256<double>[]), "x");
         var p = LinqExpression.Parameter(typeof(Vector256<double>[]), "parameters");
         var product = LinqExpression.Parameter(typeof(Vector256<double>[]), "product");
@@ -128,6 +144,16 @@ internal sealed class MapKernel
             loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(BitwiseOr, flags[g], LinqExpression.Call(OnesComplement, bounded))));
         }
 
+        if (record)
+        {
+            // window[(slot + step) · Lanes + g · Width …] = x_g
+            var row = LinqExpression.Multiply(LinqExpression.Add(slot, step), LinqExpression.Constant(Lanes));
+            for (var g = 0; g < Groups; g++)
+            {
+                loopBody.Add(LinqExpression.Call(CopyTo, state[g], window, LinqExpression.Add(row, LinqExpression.Constant(g * Width))));
+            }
+        }
+
         loopBody.Add(LinqExpression.PreIncrementAssign(step));
         var exit = LinqExpression.Label("done");
         body.Add(LinqExpression.Loop(
@@ -144,7 +170,9 @@ internal sealed class MapKernel
         }
 
         var block = LinqExpression.Block(variables, body);
-        return LinqExpression.Lambda<BlockSteps>(block, x, p, product, flagged, steps).Compile();
+        return record
+            ? LinqExpression.Lambda<TDelegate>(block, x, p, product, flagged, steps, window, slot).Compile()
+            : LinqExpression.Lambda<TDelegate>(block, x, p, product, flagged, steps).Compile();
     }
 
     private static ParameterExpression Local(List<ParameterExpression> variables, List<LinqExpression> body, LinqExpression value)

@@ -30,8 +30,13 @@ public static class ChunkRunner
 
         var (columns, attractors) = Compute(context, chunk, progress, token);
 
-        // The attractor part first: a chunk whose main part exists is complete in both tables.
-        await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
+        // The attractor part first: a chunk whose main part exists is complete in both tables. With one start per
+        // point it would repeat the main table, so it is written only when a point can have several outcomes.
+        if (context.WritesAttractors)
+        {
+            await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
+        }
+
         await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
         return columns.Count;
     }
@@ -49,7 +54,11 @@ public static class ChunkRunner
         }
 
         var (columns, attractors) = ComputePoints(context, spec, points.Length, i => points[i], null, token);
-        await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
+        if (context.WritesAttractors)
+        {
+            await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
+        }
+
         await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
     }
 
@@ -77,7 +86,7 @@ public static class ChunkRunner
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators);
+        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var starts = spec.Starts is { } startSpec ? new Specs.StartSource(startSpec, dimension) : null;
@@ -87,10 +96,15 @@ public static class ChunkRunner
         {
             var point = pointAt(i);
             source.Fill(point);
-            IReadOnlyList<FoundAttractor> found;
             if (starts is null)
             {
-                found = AttractorGrouping.Single(Analyze(analyzer, source.Initial, source.Parameters), spec.Analysis);
+                // One start, one outcome: its attractor row (and signature) only where attractor parts are written.
+                var result = Analyze(analyzer, source.Initial, source.Parameters);
+                columns.Add(point, source.AxisValues, result);
+                if (context.WritesAttractors)
+                {
+                    attractors.Add(point, AttractorGrouping.Single(result, spec.Analysis)[0]);
+                }
             }
             else
             {
@@ -100,13 +114,12 @@ public static class ChunkRunner
                     outcomes[k] = Analyze(analyzer, starts.States[k], source.Parameters);
                 }
 
-                found = AttractorGrouping.Group(outcomes, spec.Analysis);
-            }
-
-            columns.Add(point, source.AxisValues, found[0].Result, found.Count);
-            foreach (var attractor in found)
-            {
-                attractors.Add(point, attractor);
+                var found = AttractorGrouping.Group(outcomes, spec.Analysis);
+                columns.Add(point, source.AxisValues, found[0].Result, found.Count);
+                foreach (var attractor in found)
+                {
+                    attractors.Add(point, attractor);
+                }
             }
 
             if (++pending == ProgressEvery)
@@ -130,7 +143,7 @@ public static class ChunkRunner
         RunContext context, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
         var block = new MapBlockAnalyzer(context.Model, spec.Analysis);
-        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, 1, spec.Analysis.Indicators);
+        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, 1, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(1);
         var source = new Specs.PointSource(spec);
         var size = MapBlockAnalyzer.BlockSize;
@@ -166,7 +179,6 @@ public static class ChunkRunner
             for (var j = 0; j < lanes; j++)
             {
                 columns.Add(points[j], axes[j], results[j]);
-                attractors.Add(points[j], AttractorGrouping.Single(results[j], spec.Analysis)[0]);
             }
 
             token.ThrowIfCancellationRequested();
@@ -194,7 +206,7 @@ public static class ChunkRunner
         var lastLine = Math.Min(grid.LineCount, firstLine + linesPerChunk);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns((int)((lastLine - firstLine) * length), grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: true);
+        var columns = new ChunkColumns((int)((lastLine - firstLine) * length), grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: true, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var forward = new PointResult[length];

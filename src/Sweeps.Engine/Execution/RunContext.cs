@@ -38,5 +38,8 @@ public sealed class RunContext
 
     public AttractorSchema AttractorSchema { get; }
 
+    /// <summary>Whether chunks write attractor parts: only when a point can have several outcomes (several starts, or a continuation sweep's two directions).</summary>
+    public bool WritesAttractors => Spec.StartCount > 1 || Spec.Grid.Follow is not null;
+
     public IReadOnlyDictionary<string, string> Metadata { get; }
 }

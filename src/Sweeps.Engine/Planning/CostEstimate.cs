@@ -15,6 +15,11 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     public static CostEstimate Measure(SweepSpec spec, int samples = 12)
     {
         var model = ModelFactory.Build(spec);
+        if (spec.Starts is null && !spec.Analysis.TransientCheck && spec.Grid.Follow is null && Core.Kernels.MapBlockAnalyzer.Supports(model, spec.Analysis))
+        {
+            return MeasureBlocks(spec, model);
+        }
+
         var analyzer = AnalyzerFactory.Create(spec, model);
         var points = spec.Grid.PointCount;
         var count = (int)Math.Min(samples, points);
@@ -42,5 +47,46 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         // Every start of a point is a full analysis, and a continuation sweep analyses each point twice.
         var perPoint = middle.Average() * spec.AnalysesPerPoint;
         return new CostEstimate(count, perPoint, perPoint * points);
+    }
+
+    /// <summary>Maps the block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
+    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Models.Model model)
+    {
+        var block = new Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
+        var size = Core.Kernels.MapBlockAnalyzer.BlockSize;
+        var points = spec.Grid.PointCount;
+        var source = new PointSource(spec);
+        var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
+        void Fill(long first, int lanes)
+        {
+            for (var j = 0; j < lanes; j++)
+            {
+                source.Fill(Math.Min(points - 1, first + ((long)j * Math.Max(1, points / (4 * size)))));
+                initial[j] = source.Initial.ToArray();
+                parameters[j] = source.Parameters.ToArray();
+            }
+        }
+
+        // Warm-up: enough blocks for the JIT to have optimised the classification code too (tiered compilation).
+        var lanes = (int)Math.Min(size, points);
+        Fill(0, lanes);
+        var warmUp = Stopwatch.StartNew();
+        for (var w = 0; w < 50 && warmUp.Elapsed.TotalSeconds < 0.2; w++)
+        {
+            block.Analyze(initial, parameters, lanes, results);
+        }
+
+        var total = 0.0;
+        const int Blocks = 4;
+        for (var b = 0; b < Blocks; b++)
+        {
+            Fill(points * b / Blocks, lanes);
+            var clock = Stopwatch.StartNew();
+            block.Analyze(initial, parameters, lanes, results);
+            total += clock.Elapsed.TotalSeconds;
+        }
+
+        var perPoint = total / (Blocks * lanes);
+        return new CostEstimate(Blocks * lanes, perPoint, perPoint * points);
     }
 }

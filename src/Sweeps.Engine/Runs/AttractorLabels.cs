@@ -36,6 +36,12 @@ public sealed class AttractorLabels
         var variables = spec.Model.Variables;
         var catalog = new AttractorCatalog(spec.Analysis.Tolerance, spec.Analysis.ZeroBand);
         var byPoint = new Dictionary<long, int>();
+        if (!(spec.StartCount > 1 || spec.Grid.Follow is not null))
+        {
+            await FromPointsAsync(run, spec, catalog, byPoint, token);
+            return new AttractorLabels(points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray(), catalog.Known, catalog.Overflowed);
+        }
+
         var parts = Directory.Exists(run.AttractorPartsPath)
             ? Directory.EnumerateFiles(run.AttractorPartsPath, "part-*.parquet").Order(StringComparer.Ordinal)
             : Enumerable.Empty<string>();
@@ -74,6 +80,53 @@ public sealed class AttractorLabels
 
         var labels = points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray();
         return new AttractorLabels(labels, catalog.Known, catalog.Overflowed);
+    }
+
+    /// <summary>
+    /// One start per point: no attractor table is written, and each point's own row describes its attractor —
+    /// the cycle from its last samples (when they hold one whole period), the box from its samples.
+    /// </summary>
+    private static async Task FromPointsAsync(RunDirectory run, Specs.SweepSpec spec, AttractorCatalog catalog, Dictionary<long, int> byPoint, CancellationToken token)
+    {
+        var schema = new PartSchema(spec);
+        var n = spec.Model.Variables.Count;
+        foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
+        {
+            var columns = await PartReader.ReadAsync(part, schema, token);
+            var (value, level) = (0, 0);
+            for (var row = 0; row < columns.Count; row++)
+            {
+                var samples = new List<double>();
+                do
+                {
+                    if (columns.SampleDefinitions[level] == 2)
+                    {
+                        samples.Add(columns.SampleValues[value++]);
+                    }
+
+                    level++;
+                }
+                while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+
+                var states = Enumerable.Range(0, samples.Count / n).Select(i => samples.GetRange(i * n, n).ToArray()).ToList();
+                var period = columns.Period[row];
+                var cycle = period > 0 && states.Count >= period ? states.GetRange(states.Count - period, period) : [];
+                var final = columns.Final.Select(f => f[row]).ToArray();
+                var result = new PointResult(
+                    RegimeNames.TryParse(columns.Regime[row], out var regime) ? regime : Regime.Unresolved,
+                    period,
+                    [columns.Lyapunov[0][row]],
+                    [columns.LyapunovError[0][row]],
+                    double.NaN,
+                    final,
+                    cycle,
+                    null,
+                    null,
+                    [],
+                    Box: states.Count > 0 ? StateBox.Of(states) : null);
+                byPoint[columns.Point[row]] = catalog.Label(AttractorSignature.Of(result, spec.Analysis.Tolerance));
+            }
+        }
     }
 
     private static async Task<double[][]> Columns(

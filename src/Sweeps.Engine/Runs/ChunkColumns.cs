@@ -7,10 +7,15 @@ internal sealed class ChunkColumns
 {
     private readonly int n;
 
-    public ChunkColumns(int capacity, int axes, int dimension, bool indicators = false, bool branches = false)
+    public ChunkColumns(int capacity, int axes, int dimension, bool indicators = false, bool branches = false, int samples = 0)
     {
+        // Sized for the samples a row holds at most, so the lists never regrow while a chunk is computed.
+        var levels = (long)capacity * Math.Max(1, samples * dimension);
+        SampleValues = new List<double>((int)Math.Min(levels, 1 << 27));
+        SampleDefinitions = new List<int>((int)Math.Min(levels, 1 << 27));
+        SampleRepetitions = new List<int>((int)Math.Min(levels, 1 << 27));
         Hysteresis = branches ? new bool[capacity] : [];
-        Backward = branches ? new ChunkColumns(capacity, 0, dimension) : null;
+        Backward = branches ? new ChunkColumns(capacity, 0, dimension, samples: samples) : null;
         Indicators = Columns(indicators ? 3 : 0, capacity);
         n = dimension;
         Point = new long[capacity];
@@ -60,11 +65,11 @@ internal sealed class ChunkColumns
     public ChunkColumns? Backward { get; }
 
     /// <summary>Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list; repetition 0 starts a row.</summary>
-    public List<double> SampleValues { get; } = [];
+    public List<double> SampleValues { get; }
 
-    public List<int> SampleDefinitions { get; } = [];
+    public List<int> SampleDefinitions { get; }
 
-    public List<int> SampleRepetitions { get; } = [];
+    public List<int> SampleRepetitions { get; }
 
     public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1)
     {
