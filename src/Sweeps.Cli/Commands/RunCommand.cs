@@ -70,10 +70,12 @@ internal static class RunCommand
             }
         }
 
+        // The computing time, queue start and stop included; reading the summary back is not computing.
+        var computing = clock.Elapsed.TotalSeconds;
         run.MarkFinished(cli.Clock);
         var summary = await RunSummary.ReadAsync(run, CancellationToken.None);
-        var rate = clock.Elapsed.TotalSeconds > 0 ? pointsToRun / clock.Elapsed.TotalSeconds : 0;
-        SummaryText.Line(output, "finished", $"{pointsToRun:N0} points computed in {Numbers.Format(clock.Elapsed.TotalSeconds, "g3")} s ({rate:N0} points/s)");
+        var rate = computing > 0 ? pointsToRun / computing : 0;
+        SummaryText.Line(output, "finished", $"{pointsToRun:N0} points computed in {Numbers.Format(computing, "g3")} s ({rate:N0} points/s)");
         SummaryText.Line(output, "regimes", SummaryText.Regimes(summary));
         SummaryText.Line(output, "periods", SummaryText.Periods(summary));
         SummaryText.Multistability(output, summary);
