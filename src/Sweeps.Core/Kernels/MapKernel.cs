@@ -21,8 +21,8 @@ internal delegate void RecordingSteps(Vector256<double>[] x, Vector256<double>[]
 /// Run-time generated loops for one-variable maps (System.Linq.Expressions → JIT, full optimisation at once):
 /// the whole step loop for 32 orbits side by side, eight independent Vector256 chains, so the vector units and
 /// the instruction-level parallelism of the core are used — one delegate call advances 32 points by many
-/// steps. Every operation is the one the scalar path (<see cref="ExpressionCompiler"/>) performs, on the same
-/// expression trees, in the same order; IEEE arithmetic is lane-wise, and functions without an exact vector
+/// steps. The code comes from the same <see cref="NodeEmitter"/> as the scalar delegates, on the same
+/// expression trees, so every operation is the scalar one in the same order; IEEE arithmetic is lane-wise, and functions without an exact vector
 /// form are called lane by lane, so each lane's orbit equals the scalar orbit bit for bit. A lane whose orbit
 /// escapes, turns non-finite or whose running product leaves the safe range is flagged; its point is then
 /// analysed by the scalar path, which handles those cases (escape step, superstable −∞, early logarithms).
@@ -125,10 +125,11 @@ internal sealed class MapKernel
         var temporaries = new List<ParameterExpression>();
         for (var g = 0; g < Groups; g++)
         {
-            var emitter = new Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant, temporaries);
+            var emitter = Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
             if (derivative)
             {
                 var growth = LinqExpression.Call(Abs, emitter.Emit(model.Jacobian[0]));
+                temporaries.AddRange(emitter.Temporaries);
                 loopBody.Add(LinqExpression.Assign(running[g], LinqExpression.Multiply(running[g], growth)));
                 var inside = LinqExpression.Call(BitwiseAnd, LinqExpression.Call(GreaterThan, running[g], low), LinqExpression.Call(LessThan, running[g], high));
                 loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(BitwiseOr, flags[g], LinqExpression.Call(OnesComplement, inside))));
@@ -138,8 +139,9 @@ internal sealed class MapKernel
         // All derivatives first (they read x before the step), then all the steps: the eight chains interleave.
         for (var g = 0; g < Groups; g++)
         {
-            var emitter = new Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant, temporaries);
+            var emitter = Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
             loopBody.Add(LinqExpression.Assign(state[g], emitter.Emit(model.Equations[0])));
+            temporaries.AddRange(emitter.Temporaries);
             var bounded = LinqExpression.Call(LessThanOrEqual, LinqExpression.Call(Abs, state[g]), escapeVector);
             loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(BitwiseOr, flags[g], LinqExpression.Call(OnesComplement, bounded))));
         }
@@ -188,77 +190,32 @@ internal sealed class MapKernel
             .First(m => m.Name == name && m.IsGenericMethodDefinition && m.GetParameters().Length == arguments)
             .MakeGenericMethod(typeof(double));
 
-    /// <summary>Emits one node for four lanes, mirroring <see cref="ExpressionCompiler"/> operation for operation.</summary>
-    private sealed class Emitter(ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant, List<ParameterExpression> temporaries)
+    /// <summary>The shared emitter over four lanes: the scalar operations, lane-wise; catalog functions lane by lane.</summary>
+    private static NodeEmitter Emitter(ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant)
     {
-        public LinqExpression Emit(Node node) => node switch
-        {
-            NumberNode number => constant(number.Value),
-            SymbolNode { Kind: SymbolKind.Variable } => x,
-            SymbolNode { Kind: SymbolKind.Parameter } symbol => p[symbol.Index],
-            SymbolNode => throw new ArgumentException("a map has no time"),
-            NegateNode negate => LinqExpression.Negate(Emit(negate.Operand)),
-            BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } power when Evaluator.IsSmallInteger(exponent.Value) =>
-                IntegerPower(Emit(power.Left), (int)exponent.Value),
-            BinaryNode { Operator: BinaryOperator.Power } power => PerLane(FunctionCatalog.Method(MathFunction.Pow), [power.Left, power.Right]),
-            BinaryNode binary => Binary(binary),
-            CallNode call => PerLane(FunctionCatalog.Method(call.Function), call.Arguments),
-            _ => throw new ArgumentOutOfRangeException(nameof(node)),
-        };
-
-        private LinqExpression Binary(BinaryNode binary)
-        {
-            var left = Emit(binary.Left);
-            var right = Emit(binary.Right);
-            return binary.Operator switch
+        NodeEmitter? emitter = null;
+        emitter = new NodeEmitter(
+            typeof(Vector256<double>),
+            value => constant(value),
+            symbol => symbol.Kind switch
             {
-                BinaryOperator.Add => LinqExpression.Add(left, right),
-                BinaryOperator.Subtract => LinqExpression.Subtract(left, right),
-                BinaryOperator.Multiply => LinqExpression.Multiply(left, right),
-                _ => LinqExpression.Divide(left, right),
-            };
-        }
+                SymbolKind.Variable => x,
+                SymbolKind.Parameter => p[symbol.Index],
+                _ => throw new ArgumentException("a map has no time"),
+            },
+            (method, arguments) => PerLane(emitter!, method, arguments));
+        return emitter;
+    }
 
-        private LinqExpression IntegerPower(LinqExpression basis, int exponent)
-        {
-            if (exponent == 1)
-            {
-                return basis;
-            }
-
-            var temporary = Temporary();
-            var magnitude = Math.Abs(exponent);
-            LinqExpression product = temporary;
-            for (var i = 1; i < magnitude; i++)
-            {
-                product = LinqExpression.Multiply(product, temporary);
-            }
-
-            if (exponent < 0)
-            {
-                product = LinqExpression.Divide(constant(1.0), product);
-            }
-
-            return LinqExpression.Block(LinqExpression.Assign(temporary, basis), product);
-        }
-
-        /// <summary>A function with no exact vector form: the scalar method on each lane, reassembled.</summary>
-        private LinqExpression PerLane(MethodInfo method, IReadOnlyList<Node> arguments)
-        {
-            var values = arguments.Select(_ => Temporary()).ToArray();
-            var assignments = arguments.Select((a, i) => (LinqExpression)LinqExpression.Assign(values[i], Emit(a))).ToList();
-            var lanes = Enumerable.Range(0, Width).Select(lane => (LinqExpression)LinqExpression.Call(
-                method,
-                values.Select(v => (LinqExpression)LinqExpression.Call(GetElement, v, LinqExpression.Constant(lane))))).ToArray();
-            assignments.Add(LinqExpression.Call(Create, lanes));
-            return LinqExpression.Block(assignments);
-        }
-
-        private ParameterExpression Temporary()
-        {
-            var temporary = LinqExpression.Variable(typeof(Vector256<double>));
-            temporaries.Add(temporary);
-            return temporary;
-        }
+    /// <summary>A function with no exact vector form: the scalar method on each lane, reassembled.</summary>
+    private static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
+    {
+        var values = arguments.Select(_ => emitter.Temporary()).ToArray();
+        var steps = arguments.Select((a, i) => (LinqExpression)LinqExpression.Assign(values[i], a)).ToList();
+        var lanes = Enumerable.Range(0, Width).Select(lane => (LinqExpression)LinqExpression.Call(
+            method,
+            values.Select(v => (LinqExpression)LinqExpression.Call(GetElement, v, LinqExpression.Constant(lane))))).ToArray();
+        steps.Add(LinqExpression.Call(Create, lanes));
+        return LinqExpression.Block(steps);
     }
 }
