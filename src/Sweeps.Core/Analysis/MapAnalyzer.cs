@@ -154,7 +154,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         var (exponents, errors) = Exponents();
         var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
         var period = detector.FindPeriod();
-        var cycle = new List<double[]>();
+        var cycle = new List<double[]>(period);
         for (var i = detector.Count - period; period > 0 && i < detector.Count; i++)
         {
             cycle.Add(detector.State(i).ToArray());
@@ -180,7 +180,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             verdict.Reason,
             detector.Last(settings.Samples),
             Indicators: indicators,
-            Box: detector.Bounds(x));
+            Box: verdict.Regime is Regime.FixedPoint or Regime.Periodic ? StateBox.Of(cycle) : detector.Bounds(x));
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]

@@ -94,15 +94,16 @@ internal sealed class PeriodDetector
             return StateBox.Point(fallback);
         }
 
-        var low = State(0).ToArray();
-        var high = low.ToArray();
+        var low = new double[n];
+        var high = new double[n];
+        var stored = ring.AsSpan(0, count * n);
         for (var j = 0; j < n; j++)
         {
             // The first count·n slots of the ring hold the stored states; their order does not matter for a box.
-            var (least, most) = (low[j], high[j]);
-            for (var i = j; i < count * n; i += n)
+            var (least, most) = (stored[j], stored[j]);
+            for (var i = j; i < stored.Length; i += n)
             {
-                var value = ring[i];
+                var value = stored[i];
                 least = value < least ? value : least;
                 most = value > most ? value : most;
             }
@@ -117,9 +118,24 @@ internal sealed class PeriodDetector
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public int FindPeriod()
     {
+        if (count < 2)
+        {
+            return 0;
+        }
+
         Linearize();
+        var values = line;
+        var last = (count * n) - 1;
+        var (latest, scale) = (values[last], 1.0 + Math.Abs(values[last]));
         for (var p = 1; 2 * p <= count; p++)
         {
+            // Most candidates fail on the latest value already: test it here before the whole window.
+            var earlier = values[last - (p * n)];
+            if (!(Math.Abs(latest - earlier) <= tolerance * Math.Max(scale, 1.0 + Math.Abs(earlier))))
+            {
+                continue;
+            }
+
             if (Repeats(p, tolerance))
             {
                 return Smallest(p);
