@@ -10,8 +10,13 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 internal static class PartWriter
 {
-    public static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
-        WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+    /// <summary>Writes a point part; its footer also carries the part's counts (<see cref="PartTally"/>).</summary>
+    public static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    {
+        var withTally = metadata.ToDictionary();
+        withTally[PartTally.Key] = PartTally.Of(columns).ToJson();
+        return WriteFileAsync(path, schema.Schema, withTally, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+    }
 
     public static Task WriteAsync(string path, AttractorSchema schema, AttractorColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
         WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);

@@ -149,7 +149,8 @@ public static class RunExport
             return [];
         }
 
+        // The run's metadata, without the first part's own counts.
         await using var reader = await ParquetReader.CreateAsync(parts[0], null, token);
-        return reader.CustomMetadata.ToDictionary();
+        return reader.CustomMetadata.Where(m => m.Key != PartTally.Key).ToDictionary();
     }
 }

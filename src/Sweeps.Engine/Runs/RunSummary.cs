@@ -3,7 +3,7 @@ using Parquet;
 namespace Sweeps.Engine.Runs;
 
 /// <summary>
-/// What a run holds, read from its part files alone: points per regime and per period, the range of
+/// What a run holds, read from the footers of its part files alone: points per regime and per period, the range of
 /// the largest exponent, points with several attractors, points flagged as hysteretic (continuation
 /// sweeps; null otherwise), and which chunks are still missing.
 /// </summary>
@@ -39,48 +39,24 @@ public sealed record RunSummary(
                 continue;
             }
 
+            // Every part's footer carries its counts (PartTally): no rows to read.
             await using var reader = await ParquetReader.CreateAsync(path, null, token);
-            var fields = reader.Schema.DataFields;
-            var regimeField = fields.First(f => f.Name == "regime");
-            var periodField = fields.First(f => f.Name == "period");
-            var lyapunovField = fields.First(f => f.Name == "lyapunov_1");
-            var attractorsField = fields.First(f => f.Name == "attractors");
-            var hysteresisField = fields.FirstOrDefault(f => f.Name == "hysteresis");
-            for (var g = 0; g < reader.RowGroupCount; g++)
+            var tally = PartTally.FromJson(reader.CustomMetadata.GetValueOrDefault(PartTally.Key))
+                ?? throw Config.ConfigException.Single(path, "a part file without its counts (not written by this version of Sweeps)");
+            foreach (var (regime, count) in tally.Regimes)
             {
-                using var group = reader.OpenRowGroupReader(g);
-                var rows = (int)group.RowCount;
-                var regime = new string[rows];
-                var period = new int[rows];
-                var lyapunov = new double[rows];
-                await group.ReadAsync(regimeField, regime, null, token);
-                await group.ReadAsync<int>(periodField, period, null, token);
-                await group.ReadAsync<double>(lyapunovField, lyapunov, null, token);
-                var attractors = new int[rows];
-                await group.ReadAsync<int>(attractorsField, attractors, null, token);
-                multistable += attractors.Count(a => a > 1);
-                if (hysteresisField is not null)
-                {
-                    var flags = new bool[rows];
-                    await group.ReadAsync<bool>(hysteresisField, flags, null, token);
-                    hysteretic = (hysteretic ?? 0) + flags.Count(f => f);
-                }
-                for (var i = 0; i < rows; i++)
-                {
-                    regimes[regime[i]] = regimes.GetValueOrDefault(regime[i]) + 1;
-                    if (period[i] > 0)
-                    {
-                        periods[period[i]] = periods.GetValueOrDefault(period[i]) + 1;
-                    }
-
-                    if (!double.IsNaN(lyapunov[i]))
-                    {
-                        (min, max) = (Math.Min(min, lyapunov[i]), Math.Max(max, lyapunov[i]));
-                    }
-                }
-
-                done += rows;
+                regimes[regime] = regimes.GetValueOrDefault(regime) + count;
             }
+
+            foreach (var (period, count) in tally.Periods)
+            {
+                periods[period] = periods.GetValueOrDefault(period) + count;
+            }
+
+            (min, max) = (Math.Min(min, tally.LargestExponentMin), Math.Max(max, tally.LargestExponentMax));
+            multistable += tally.Multistable;
+            hysteretic = tally.Hysteresis is { } flagged ? (hysteretic ?? 0) + flagged : hysteretic;
+            done += tally.Rows;
         }
 
         return new RunSummary(

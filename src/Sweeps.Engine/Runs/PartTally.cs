@@ -1,0 +1,89 @@
+using System.Globalization;
+using System.Text.Json.Nodes;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>
+/// A part's counts, stored in its footer (metadata key <see cref="Key"/>) so that summaries of a run read
+/// footers instead of every row: points per regime and per period, the range of the largest exponent,
+/// points with several attractors and (continuation sweeps) hysteretic points. Deterministic: keys sorted,
+/// numbers in round-trip form.
+/// </summary>
+internal sealed record PartTally(
+    SortedDictionary<string, long> Regimes,
+    SortedDictionary<int, long> Periods,
+    double LargestExponentMin,
+    double LargestExponentMax,
+    long Multistable,
+    long? Hysteresis,
+    long Rows)
+{
+    public const string Key = "sweeps.tally";
+
+    public static PartTally Of(ChunkColumns columns)
+    {
+        var regimes = new SortedDictionary<string, long>(StringComparer.Ordinal);
+        var periods = new SortedDictionary<int, long>();
+        var (min, max) = (double.PositiveInfinity, double.NegativeInfinity);
+        var multistable = 0L;
+        for (var row = 0; row < columns.Count; row++)
+        {
+            regimes[columns.Regime[row]] = regimes.GetValueOrDefault(columns.Regime[row]) + 1;
+            if (columns.Period[row] > 0)
+            {
+                periods[columns.Period[row]] = periods.GetValueOrDefault(columns.Period[row]) + 1;
+            }
+
+            var exponent = columns.Lyapunov.Length > 0 ? columns.Lyapunov[0][row] : double.NaN;
+            if (!double.IsNaN(exponent))
+            {
+                (min, max) = (Math.Min(min, exponent), Math.Max(max, exponent));
+            }
+
+            multistable += columns.Attractors[row] > 1 ? 1 : 0;
+        }
+
+        long? hysteresis = columns.Backward is null ? null : columns.Hysteresis.Take(columns.Count).LongCount(h => h);
+        return new PartTally(regimes, periods, min, max, multistable, hysteresis, columns.Count);
+    }
+
+    public string ToJson() => new JsonObject
+    {
+        ["rows"] = Rows,
+        ["regimes"] = new JsonObject(Regimes.Select(r => KeyValuePair.Create(r.Key, (JsonNode?)r.Value))),
+        ["periods"] = new JsonObject(Periods.Select(p => KeyValuePair.Create(p.Key.ToString(CultureInfo.InvariantCulture), (JsonNode?)p.Value))),
+        ["lyapunov_1_min"] = LargestExponentMin.ToString("R", CultureInfo.InvariantCulture),
+        ["lyapunov_1_max"] = LargestExponentMax.ToString("R", CultureInfo.InvariantCulture),
+        ["multistable"] = Multistable,
+        ["hysteresis"] = Hysteresis,
+    }.ToJsonString();
+
+    public static PartTally? FromJson(string? text)
+    {
+        if (text is null || JsonNode.Parse(text) is not JsonObject json)
+        {
+            return null;
+        }
+
+        var regimes = new SortedDictionary<string, long>(StringComparer.Ordinal);
+        foreach (var (name, count) in json["regimes"]!.AsObject())
+        {
+            regimes[name] = count!.GetValue<long>();
+        }
+
+        var periods = new SortedDictionary<int, long>();
+        foreach (var (period, count) in json["periods"]!.AsObject())
+        {
+            periods[int.Parse(period, CultureInfo.InvariantCulture)] = count!.GetValue<long>();
+        }
+
+        return new PartTally(
+            regimes,
+            periods,
+            double.Parse(json["lyapunov_1_min"]!.GetValue<string>(), CultureInfo.InvariantCulture),
+            double.Parse(json["lyapunov_1_max"]!.GetValue<string>(), CultureInfo.InvariantCulture),
+            json["multistable"]!.GetValue<long>(),
+            json["hysteresis"]?.GetValue<long>(),
+            json["rows"]!.GetValue<long>());
+    }
+}
