@@ -147,9 +147,10 @@ public static class ChunkRunner
         var attractors = new AttractorColumns(1);
         var source = new Specs.PointSource(spec);
         var size = MapBlockAnalyzer.BlockSize;
-        var initial = new double[size][];
-        var parameters = new double[size][];
-        var axes = new double[size][];
+        // Per-lane buffers, filled for every block (the analyzer keeps nothing of them).
+        var initial = Lanes(size, spec.Initial.Count);
+        var parameters = Lanes(size, spec.Parameters.Count);
+        var axes = Lanes(size, spec.Grid.Axes.Count);
         var points = new long[size];
         var results = new PointResult[size];
         for (var i = 0; i < count; i += size)
@@ -159,9 +160,9 @@ public static class ChunkRunner
             {
                 points[j] = pointAt(i + j);
                 source.Fill(points[j]);
-                initial[j] = source.Initial.ToArray();
-                parameters[j] = source.Parameters.ToArray();
-                axes[j] = source.AxisValues.ToArray();
+                source.Initial.CopyTo(initial[j], 0);
+                source.Parameters.CopyTo(parameters[j], 0);
+                source.AxisValues.CopyTo(axes[j], 0);
             }
 
             try
@@ -187,6 +188,8 @@ public static class ChunkRunner
 
         return (columns, attractors);
     }
+
+    private static double[][] Lanes(int lanes, int length) => Enumerable.Range(0, lanes).Select(_ => new double[length]).ToArray();
 
     /// <summary>
     /// A continuation sweep: the chunk holds whole lines along the followed axis. Each line is swept forward
