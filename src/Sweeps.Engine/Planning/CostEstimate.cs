@@ -67,23 +67,35 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
             }
         }
 
-        // Warm-up: enough blocks for the JIT to have optimised the classification code too (tiered compilation).
+        // Warm-up: long enough for tiered compilation to have optimised the per-point code too (it promotes
+        // methods after ~30 calls and a 100 ms delay; before that the estimate is several times pessimistic).
+        // Large grids are worth the 0.3 s; for small ones a rough figure will do and start-up matters more.
         var lanes = (int)Math.Min(size, points);
         Fill(0, lanes);
         var warmUp = Stopwatch.StartNew();
-        for (var w = 0; w < 50 && warmUp.Elapsed.TotalSeconds < 0.2; w++)
+        var budget = points > 100_000 ? 0.3 : 0.02;
+        while (warmUp.Elapsed.TotalSeconds < budget)
         {
             block.Analyze(initial, parameters, lanes, results);
         }
 
+        // Four places along the grid, each timed five times; the median of each (a block is short enough for
+        // one collection or a background compilation to multiply its time).
         var total = 0.0;
         const int Blocks = 4;
         for (var b = 0; b < Blocks; b++)
         {
             Fill(points * b / Blocks, lanes);
-            var clock = Stopwatch.StartNew();
-            block.Analyze(initial, parameters, lanes, results);
-            total += clock.Elapsed.TotalSeconds;
+            var times = new double[5];
+            for (var repeat = 0; repeat < times.Length; repeat++)
+            {
+                var clock = Stopwatch.StartNew();
+                block.Analyze(initial, parameters, lanes, results);
+                times[repeat] = clock.Elapsed.TotalSeconds;
+            }
+
+            Array.Sort(times);
+            total += times[times.Length / 2];
         }
 
         var perPoint = total / (Blocks * lanes);
