@@ -152,8 +152,27 @@ public sealed class DistributedTests(PostgresFixture postgres)
         Assert.Contains("cannot use the queue at", unreachable.Error);
     }
 
-    private static Process StartWorker(string folder, string queue) =>
-        SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "5");
+    // What the workers print, read as it comes: an unread pipe fills up and stalls the worker writing to it.
+    private readonly System.Collections.Concurrent.ConcurrentQueue<string> workerLog = new();
+
+    private Process StartWorker(string folder, string queue)
+    {
+        var worker = SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "5");
+        var id = worker.Id;
+        worker.OutputDataReceived += (_, line) => Log(id, line.Data);
+        worker.ErrorDataReceived += (_, line) => Log(id, line.Data);
+        worker.BeginOutputReadLine();
+        worker.BeginErrorReadLine();
+        return worker;
+    }
+
+    private void Log(int worker, string? line)
+    {
+        if (line is not null)
+        {
+            workerLog.Enqueue($"[{worker}] {line}");
+        }
+    }
 
     private static void StopAll(List<Process> workers)
     {
@@ -174,12 +193,12 @@ public sealed class DistributedTests(PostgresFixture postgres)
         }
     }
 
-    private static void WaitFor(Func<bool> condition, TimeSpan timeout)
+    private void WaitFor(Func<bool> condition, TimeSpan timeout)
     {
         var clock = Stopwatch.StartNew();
         while (!condition())
         {
-            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout}");
+            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout}; the workers' last lines:\n{string.Join("\n", workerLog.TakeLast(40))}");
             Thread.Sleep(50);
         }
     }
