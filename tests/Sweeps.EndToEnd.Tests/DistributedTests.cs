@@ -9,7 +9,8 @@ namespace Sweeps.EndToEnd.Tests;
 [Collection("postgres")]
 public sealed class DistributedTests(PostgresFixture postgres)
 {
-    // 24 000 logistic-type points in 60 chunks of 400: several seconds of work for three workers.
+    // 24 000 logistic-type points in 60 chunks of 400: several seconds of work for three workers. The transient
+    // check keeps it on the scalar path, so that killed workers and outages land mid-sweep.
     private const string Config = """
         [model]
         kind = "map"
@@ -25,6 +26,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
         transient = 3000
         measure = 3000
         lyapunov = "largest"
+        transient_check = true
         [output]
         chunk_size = 400
         """;

@@ -41,7 +41,7 @@ public sealed class MapBlockAnalyzer
 
         this.settings = settings;
         scalar = new MapAnalyzer(model, settings);
-        kernel = new MapKernel(model, settings.Escape, MapAnalyzer.SafeLow, MapAnalyzer.SafeHigh);
+        kernel = MapKernel.For(model, settings.Escape, MapAnalyzer.SafeLow, MapAnalyzer.SafeHigh);
         parameterCount = model.Source.Parameters.Count;
         exponents = settings.Lyapunov != LyapunovMode.None;
         p = new Vector256<double>[Math.Max(1, parameterCount * Groups)];

@@ -47,6 +47,14 @@ internal sealed class MapKernel
         .MakeGenericMethod(typeof(double));
     private static readonly MethodInfo Broadcast = typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double)])!;
 
+    // Compiled kernels per model and escape bound: a process computes many chunks of one run, and compiling
+    // four loops costs milliseconds. Delegates are thread-safe; the per-thread state lives in the caller.
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Model, System.Collections.Concurrent.ConcurrentDictionary<double, Lazy<MapKernel>>> Compiled = new();
+
+    /// <summary>The kernels of <paramref name="model"/>, compiled once per model instance and escape bound.</summary>
+    public static MapKernel For(Model model, double escape, double safeLow, double safeHigh) =>
+        Compiled.GetValue(model, _ => new()).GetOrAdd(escape, e => new Lazy<MapKernel>(() => new MapKernel(model, e, safeLow, safeHigh))).Value;
+
     public MapKernel(Model model, double escape, double safeLow, double safeHigh)
     {
         if (model.Kind != ModelKind.Map || model.Dimension != 1)
