@@ -31,18 +31,14 @@ internal static class DirectLoop
                 // The block kernel, as chunks use it.
                 var block = new Sweeps.Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
                 var size = Sweeps.Core.Kernels.MapBlockAnalyzer.BlockSize;
-                var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
+                var lanesSource = new BlockSource(spec);
+                var results = new PointResult[size];
                 for (var point = first; point < last; point += size)
                 {
                     var lanes = (int)Math.Min(size, last - point);
-                    for (var j = 0; j < lanes; j++)
-                    {
-                        source.Fill(point + j);
-                        initial[j] = source.Initial.ToArray();
-                        parameters[j] = source.Parameters.ToArray();
-                    }
-
-                    block.Analyze(initial, parameters, lanes, results);
+                    var start = point;
+                    lanesSource.Fill(lanes, j => start + j);
+                    block.Analyze(lanesSource.Initial, lanesSource.Parameters, lanes, results);
                     for (var j = 0; j < lanes; j++)
                     {
                         sum += Check(results[j]);

@@ -145,25 +145,15 @@ public static class ChunkRunner
         var block = new MapBlockAnalyzer(context.Model, spec.Analysis);
         var columns = new ChunkColumns(count, spec.Grid.Axes.Count, 1, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(1);
-        var source = new Specs.PointSource(spec);
+        var source = new Specs.BlockSource(spec);
+        var (initial, parameters, axes, points) = (source.Initial, source.Parameters, source.AxisValues, source.Points);
         var size = MapBlockAnalyzer.BlockSize;
-        // Per-lane buffers, filled for every block (the analyzer keeps nothing of them).
-        var initial = Lanes(size, spec.Initial.Count);
-        var parameters = Lanes(size, spec.Parameters.Count);
-        var axes = Lanes(size, spec.Grid.Axes.Count);
-        var points = new long[size];
         var results = new PointResult[size];
         for (var i = 0; i < count; i += size)
         {
             var lanes = Math.Min(size, count - i);
-            for (var j = 0; j < lanes; j++)
-            {
-                points[j] = pointAt(i + j);
-                source.Fill(points[j]);
-                source.Initial.CopyTo(initial[j], 0);
-                source.Parameters.CopyTo(parameters[j], 0);
-                source.AxisValues.CopyTo(axes[j], 0);
-            }
+            var first = i;
+            source.Fill(lanes, j => pointAt(first + j));
 
             try
             {
@@ -189,8 +179,6 @@ public static class ChunkRunner
         return (columns, attractors);
     }
 
-    private static double[][] Lanes(int lanes, int length) => Enumerable.Range(0, lanes).Select(_ => new double[length]).ToArray();
-
     /// <summary>
     /// A continuation sweep: the chunk holds whole lines along the followed axis. Each line is swept forward
     /// from its first point's own initial state, every next point starting from the previous one's final
@@ -214,24 +202,30 @@ public static class ChunkRunner
         var source = new Specs.PointSource(spec);
         var forward = new PointResult[length];
         var backward = new PointResult[length];
+        var points = new long[length];
         for (var line = firstLine; line < lastLine; line++)
         {
+            for (var step = 0L; step < length; step++)
+            {
+                points[step] = grid.LinePoint(line, step);
+            }
+
             PointResult? previous = null;
             for (var step = 0L; step < length; step++)
             {
-                source.Fill(grid.LinePoint(line, step));
+                source.Fill(points[step]);
                 forward[step] = previous = Analyze(analyzer, Continued(previous, spec) ?? source.Initial, source.Parameters);
             }
 
             for (var step = length - 1; step >= 0; step--)
             {
-                source.Fill(grid.LinePoint(line, step));
+                source.Fill(points[step]);
                 backward[step] = previous = Analyze(analyzer, Continued(previous, spec) ?? source.Initial, source.Parameters);
             }
 
             for (var step = 0L; step < length; step++)
             {
-                var point = grid.LinePoint(line, step);
+                var point = points[step];
                 source.Fill(point);
                 var found = AttractorGrouping.Group([forward[step], backward[step]], spec.Analysis);
                 var hysteresis = found.Count > 1 && forward[step].Regime != Regime.Unresolved && backward[step].Regime != Regime.Unresolved;
@@ -250,9 +244,12 @@ public static class ChunkRunner
         return (columns, attractors);
     }
 
-    /// <summary>The state a continuation carries on from: the previous point's final state, unless there is none or it escaped.</summary>
+    /// <summary>
+    /// The state a continuation carries on from: the previous point's final state (analyzers copy their start, so
+    /// it is passed as it is), unless there is none or it escaped.
+    /// </summary>
     private static double[]? Continued(PointResult? previous, Specs.SweepSpec spec) =>
-        previous is { Regime: not Regime.Divergent } && PointResult.Bounded(previous.FinalState, spec.Analysis.Escape) ? previous.FinalState.ToArray() : null;
+        previous is { Regime: not Regime.Divergent } && PointResult.Bounded(previous.FinalState, spec.Analysis.Escape) ? previous.FinalState : null;
 
     /// <summary>Analyses one start; an analysis that throws becomes an unresolved result with the reason.</summary>
     public static PointResult Analyze(IPointAnalyzer analyzer, double[] initial, double[] parameters)

@@ -55,17 +55,10 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         var block = new Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
         var size = Core.Kernels.MapBlockAnalyzer.BlockSize;
         var points = spec.Grid.PointCount;
-        var source = new PointSource(spec);
-        var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
-        void Fill(long first, int lanes)
-        {
-            for (var j = 0; j < lanes; j++)
-            {
-                source.Fill(Math.Min(points - 1, first + ((long)j * Math.Max(1, points / (4 * size)))));
-                initial[j] = source.Initial.ToArray();
-                parameters[j] = source.Parameters.ToArray();
-            }
-        }
+        var source = new BlockSource(spec);
+        var (initial, parameters, results) = (source.Initial, source.Parameters, new PointResult[size]);
+        void Fill(long first, int lanes) =>
+            source.Fill(lanes, j => Math.Min(points - 1, first + ((long)j * Math.Max(1, points / (4 * size)))));
 
         // Warm-up: long enough for tiered compilation to have optimised the per-point code too (it promotes
         // methods after ~30 calls and a 100 ms delay; before that the estimate is several times pessimistic).

@@ -93,20 +93,11 @@ public sealed class AttractorLabels
         foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
         {
             var columns = await PartReader.ReadAsync(part, schema, token);
-            var (value, level) = (0, 0);
+            var cursor = new ChunkColumns.SampleCursor(columns);
+            var samples = new List<double>();
             for (var row = 0; row < columns.Count; row++)
             {
-                var samples = new List<double>();
-                do
-                {
-                    if (columns.SampleDefinitions[level] == 2)
-                    {
-                        samples.Add(columns.SampleValues[value++]);
-                    }
-
-                    level++;
-                }
-                while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+                cursor.Next(samples);
 
                 var states = Enumerable.Range(0, samples.Count / n).Select(i => samples.GetRange(i * n, n).ToArray()).ToList();
                 var period = columns.Period[row];

@@ -122,6 +122,29 @@ internal sealed class ChunkColumns
         Backward!.Add(Point[Count - 1], [], result);
     }
 
+    /// <summary>Walks the samples list column one row at a time: values until the next repetition level 0.</summary>
+    public sealed class SampleCursor(ChunkColumns columns)
+    {
+        private int value;
+        private int level;
+
+        /// <summary>Replaces the contents of <paramref name="row"/> with the next row's samples.</summary>
+        public void Next(List<double> row)
+        {
+            row.Clear();
+            do
+            {
+                if (columns.SampleDefinitions[level] == 2)
+                {
+                    row.Add(columns.SampleValues[value++]);
+                }
+
+                level++;
+            }
+            while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+        }
+    }
+
     private static double[][] Columns(int count, int capacity)
     {
         var columns = new double[count][];

@@ -104,26 +104,16 @@ public static class RunExport
         return rows;
     }
 
-    /// <summary>Walks a list column's levels one row at a time: values until the next repetition level 0, joined by ';'.</summary>
+    /// <summary>Appends a row's samples, ';'-separated, through a cursor over the column.</summary>
     private sealed class SampleCursor(ChunkColumns columns)
     {
-        private int sample;
-        private int level;
+        private readonly ChunkColumns.SampleCursor cursor = new(columns);
+        private readonly List<double> row = [];
 
         public void AppendRow(StringBuilder line)
         {
-            var first = true;
-            do
-            {
-                if (columns.SampleDefinitions[level] == 2)
-                {
-                    line.Append(first ? "" : ";").Append(Number(columns.SampleValues[sample++]));
-                    first = false;
-                }
-
-                level++;
-            }
-            while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+            cursor.Next(row);
+            line.AppendJoin(';', row.Select(Number));
         }
     }
 
