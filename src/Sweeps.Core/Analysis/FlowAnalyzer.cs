@@ -54,6 +54,11 @@ public sealed class FlowAnalyzer : IPointAnalyzer
     private long seriesCount;
 
     public FlowAnalyzer(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section)
+        : this(model, settings, integrator, section, generated: true)
+    {
+    }
+
+    private FlowAnalyzer(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section, bool generated)
     {
         if (model.Kind != ModelKind.Flow)
         {
@@ -72,8 +77,8 @@ public sealed class FlowAnalyzer : IPointAnalyzer
             LyapunovMode.Largest => 1,
             _ => 0,
         };
-        plain = new OdeSystem(model, 0);
-        tangent = new OdeSystem(model, vectors);
+        plain = new OdeSystem(model, 0, generated);
+        tangent = new OdeSystem(model, vectors, generated);
         plainStepper = Stepper.Create(plain, integrator);
         tangentStepper = Stepper.Create(tangent, integrator);
         state = new double[n];
@@ -91,6 +96,10 @@ public sealed class FlowAnalyzer : IPointAnalyzer
         // On a section its own variable is constant: watch the first other one.
         seriesVariable = model.UsesTime || n == 1 ? 0 : section.Variable == 0 ? 1 : 0;
     }
+
+    /// <summary>The same analysis on the plain reference loops instead of generated code (for tests of the generated code).</summary>
+    internal static FlowAnalyzer Reference(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section) =>
+        new(model, settings, integrator, section, generated: false);
 
     /// <summary>Fewest recorded values the indicators are computed from; with fewer they are NaN.</summary>
     public const int IndicatorMinimum = 64;

@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using Sweeps.Core.Expressions;
 using Sweeps.Core.Models;
 
 namespace Sweeps.Core.Integrators;
@@ -11,21 +12,35 @@ namespace Sweeps.Core.Integrators;
 /// </summary>
 public sealed class OdeSystem
 {
-    private readonly Model model;
     private readonly double[] x;
     private readonly double[] f;
     private readonly double[] jacobian;
+    private readonly VectorField? fused;
 
-    public OdeSystem(Model model, int tangentVectors)
+    /// <param name="model">The flow.</param>
+    /// <param name="tangentVectors">Tangent vectors k carried beside the state.</param>
+    /// <param name="generated">
+    /// Evaluate through run-time generated code (<see cref="FlowKernels"/>): one fused delegate for f and Df·Φ,
+    /// and whole generated steps for the fixed-step schemes. False keeps the plain reference loops, which the
+    /// generated code is tested against.
+    /// </param>
+    public OdeSystem(Model model, int tangentVectors, bool generated = true)
     {
-        this.model = model;
+        Model = model;
         StateDimension = model.Dimension;
         TangentVectors = tangentVectors;
+        Generated = generated;
         Dimension = StateDimension * (1 + tangentVectors);
         x = new double[StateDimension];
         f = new double[StateDimension];
         jacobian = new double[StateDimension * StateDimension];
+        fused = generated && tangentVectors > 0 ? FlowKernels.Derivative(model, tangentVectors) : null;
     }
+
+    public Model Model { get; }
+
+    /// <summary>Whether evaluation runs through generated code (see the constructor).</summary>
+    public bool Generated { get; }
 
     public int StateDimension { get; }
 
@@ -37,24 +52,26 @@ public sealed class OdeSystem
     /// <summary>The parameters the right-hand side is evaluated with.</summary>
     public double[] Parameters { get; set; } = [];
 
-    /// <summary>Number of right-hand-side evaluations since construction (for budgets and benchmarks).</summary>
-    public long Evaluations { get; private set; }
-
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Derivative(double t, double[] y, double[] dy)
     {
         var n = StateDimension;
-        Evaluations++;
         if (TangentVectors == 0)
         {
-            model.Evaluate(y, Parameters, t, dy);
+            Model.Evaluate(y, Parameters, t, dy);
+            return;
+        }
+
+        if (fused is not null)
+        {
+            fused(y, Parameters, t, dy);
             return;
         }
 
         Array.Copy(y, x, n);
-        model.Evaluate(x, Parameters, t, f);
+        Model.Evaluate(x, Parameters, t, f);
         Array.Copy(f, dy, n);
-        model.EvaluateJacobian(x, Parameters, t, jacobian);
+        Model.EvaluateJacobian(x, Parameters, t, jacobian);
         for (var c = 0; c < TangentVectors; c++)
         {
             var offset = n * (c + 1);
@@ -75,7 +92,7 @@ public sealed class OdeSystem
     public double Divergence(double t, double[] y)
     {
         Array.Copy(y, x, StateDimension);
-        model.EvaluateJacobian(x, Parameters, t, jacobian);
+        Model.EvaluateJacobian(x, Parameters, t, jacobian);
         var trace = 0.0;
         for (var i = 0; i < StateDimension; i++)
         {

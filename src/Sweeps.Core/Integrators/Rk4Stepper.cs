@@ -3,7 +3,9 @@ namespace Sweeps.Core.Integrators;
 
 /// <summary>
 /// The classical fourth-order Runge–Kutta scheme with a fixed step. Each stage is evaluated at its
-/// own time (t, t + h/2, t + h/2, t + h), which matters for forced systems.
+/// own time (t, t + h/2, t + h/2, t + h), which matters for forced systems. When the system is
+/// <see cref="OdeSystem.Generated"/>, the whole step is one generated delegate (<see cref="FlowKernels"/>)
+/// doing these operations in this order; the loops below are the reference it is tested against.
 /// </summary>
 public sealed class Rk4Stepper : FixedStepper
 {
@@ -11,6 +13,7 @@ public sealed class Rk4Stepper : FixedStepper
     private readonly double[] k3;
     private readonly double[] k4;
     private readonly double[] stage;
+    private readonly FixedStep? generated;
 
     public Rk4Stepper(OdeSystem system, double step)
         : base(system, step)
@@ -19,11 +22,18 @@ public sealed class Rk4Stepper : FixedStepper
         k3 = new double[system.Dimension];
         k4 = new double[system.Dimension];
         stage = new double[system.Dimension];
+        generated = system.Generated ? FlowKernels.Step(system.Model, system.TangentVectors, IntegratorMethod.Rk4) : null;
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     protected override void TakeStep(double[] y, double t, double h, double[] k1)
     {
+        if (generated is not null)
+        {
+            generated(y, System.Parameters, t, h, k1);
+            return;
+        }
+
         var n = y.Length;
         System.Derivative(t, y, k1);
         for (var i = 0; i < n; i++)
