@@ -6,7 +6,7 @@ namespace Sweeps.Core.Integrators;
 /// output), which is how section crossings and stroboscopic samples are located between steps.
 /// The steppers are sealed and own their stage buffers; one call per step, no allocation.
 /// </summary>
-public abstract class Stepper
+public abstract class Stepper : IDenseOutput
 {
     protected Stepper(OdeSystem system)
     {
