@@ -26,12 +26,11 @@ internal static class DirectLoop
             var sum = 0.0;
             static double Check(PointResult result) =>
                 result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
-            if (spec.Starts is null && !spec.Analysis.TransientCheck && Sweeps.Core.Kernels.MapBlockAnalyzer.Supports(model, spec.Analysis))
+            if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
             {
                 // The block kernel, as chunks use it.
-                var block = new Sweeps.Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
-                var size = Sweeps.Core.Kernels.MapBlockAnalyzer.BlockSize;
-                var lanesSource = new BlockSource(spec);
+                var size = block.BlockSize;
+                var lanesSource = new BlockSource(spec, size);
                 var results = new PointResult[size];
                 for (var point = first; point < last; point += size)
                 {

@@ -7,7 +7,7 @@ namespace Sweeps.Core.Analysis;
 /// <summary>
 /// What one flow point accumulates while it is measured — exponent sums, section points or stroboscopic
 /// samples with their times, the indicator series — and how that becomes a <see cref="PointResult"/>. The
-/// scalar <see cref="FlowAnalyzer"/> keeps one; the lane-parallel <c>Kernels.FlowBlockAnalyzer</c> one
+/// scalar <see cref="FlowAnalyzer"/> keeps one; the lane-parallel <see cref="Kernels.FlowBlockAnalyzer"/> one
 /// per lane, so both classify with the same code. Buffers are reused across points.
 /// </summary>
 internal sealed class FlowTrack
@@ -58,6 +58,9 @@ internal sealed class FlowTrack
 
     public bool Forced => forcingPeriod > 0;
 
+    /// <summary>The parameters of the current point.</summary>
+    public double[] Parameters => parameters;
+
     /// <summary>The point's current state (n values): where stopped points and the final state are read from.</summary>
     public double[] State { get; }
 
@@ -91,12 +94,17 @@ internal sealed class FlowTrack
             return false;
         }
 
+        AddNorms(norms);
+        return true;
+    }
+
+    /// <summary>Adds the logarithms of the norms |R_cc| of one re-orthonormalisation.</summary>
+    public void AddNorms(ReadOnlySpan<double> values)
+    {
         for (var c = 0; c < vectors; c++)
         {
-            sums[c] += Math.Log(norms[c]);
+            sums[c] += Math.Log(values[c]);
         }
-
-        return true;
     }
 
     /// <summary>The measurement's first half ends here (for the convergence estimate).</summary>

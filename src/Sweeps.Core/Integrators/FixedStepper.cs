@@ -59,7 +59,12 @@ public abstract class FixedStepper : Stepper
             endSlopeKnown = true;
         }
 
-        var h = EndTime - StartTime;
+        Hermite(theta, EndTime - StartTime, Start, startSlope, end, endSlope, output, count);
+    }
+
+    /// <summary>The cubic Hermite interpolant at θ of a step of length <paramref name="h"/> from its end values and slopes.</summary>
+    internal static void Hermite(double theta, double h, double[] start, double[] startSlope, double[] end, double[] endSlope, double[] output, int count)
+    {
         var t2 = theta * theta;
         var t3 = t2 * theta;
         var h00 = (2 * t3) - (3 * t2) + 1;
@@ -68,7 +73,7 @@ public abstract class FixedStepper : Stepper
         var h11 = t3 - t2;
         for (var i = 0; i < count; i++)
         {
-            output[i] = (h00 * Start[i]) + (h10 * h * startSlope[i]) + (h01 * end[i]) + (h11 * h * endSlope[i]);
+            output[i] = (h00 * start[i]) + (h10 * h * startSlope[i]) + (h01 * end[i]) + (h11 * h * endSlope[i]);
         }
     }
 

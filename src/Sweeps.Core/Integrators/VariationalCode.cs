@@ -1,5 +1,7 @@
 using System.Linq.Expressions;
+using System.Runtime.Intrinsics;
 using Sweeps.Core.Expressions;
+using Sweeps.Core.Kernels;
 using Sweeps.Core.Models;
 using LinqExpression = System.Linq.Expressions.Expression;
 
@@ -11,31 +13,64 @@ namespace Sweeps.Core.Integrators;
 /// once per evaluation, entries that are identically zero are left out, and the products are summed in
 /// column order — the order of <see cref="OdeSystem"/>'s reference loop, so the values agree with it
 /// except for the sign of an exact zero. Used for the fused derivative delegate and inside the
-/// generated Runge–Kutta step, where the stage values never leave registers and locals.
+/// generated Runge–Kutta step, where the stage values never leave registers and locals. Over
+/// <see cref="Vector256{T}"/> values (four points side by side) IEEE arithmetic is lane-wise and catalog
+/// functions are called lane by lane, so every lane computes exactly what the scalar code computes.
 /// </summary>
 internal sealed class VariationalCode
 {
     private readonly Model model;
     private readonly int vectors;
     private readonly ParameterExpression[] parameters;
+    private readonly Dictionary<long, ParameterExpression> constants = [];
+    private readonly List<LinqExpression> body;
 
     /// <param name="model">The flow.</param>
     /// <param name="vectors">Tangent vectors k (0 for the state alone).</param>
-    /// <param name="p">The parameter array; each parameter is read into a local once, up front.</param>
-    /// <param name="body">Statements of the enclosing block; the parameter loads are appended.</param>
-    public VariationalCode(Model model, int vectors, LinqExpression p, List<LinqExpression> body)
+    /// <param name="lanes">Values are <see cref="Vector256{T}"/> of four points instead of doubles.</param>
+    /// <param name="p">The parameter array (of the value type); each parameter is read into a local once, up front.</param>
+    /// <param name="body">Statements of the enclosing block; parameter loads and vector constants are appended as they are needed.</param>
+    public VariationalCode(Model model, int vectors, bool lanes, LinqExpression p, List<LinqExpression> body)
     {
         this.model = model;
         this.vectors = vectors;
+        this.body = body;
+        Type = lanes ? typeof(Vector256<double>) : typeof(double);
         parameters = new ParameterExpression[model.Parameters.Count];
         for (var i = 0; i < parameters.Length; i++)
         {
-            parameters[i] = LinqExpression.Variable(typeof(double), model.Parameters[i]);
+            parameters[i] = Local();
             body.Add(LinqExpression.Assign(parameters[i], LinqExpression.ArrayIndex(p, LinqExpression.Constant(i))));
         }
-
-        Variables.AddRange(parameters);
     }
+
+    /// <summary>The value type: double, or four lanes.</summary>
+    public Type Type { get; }
+
+    private bool Lanes => Type != typeof(double);
+
+    /// <summary>A number as a value: a constant, or for lanes a broadcast made once into a block variable (never a boxed vector constant).</summary>
+    public LinqExpression Constant(double value)
+    {
+        if (!Lanes)
+        {
+            return LinqExpression.Constant(value);
+        }
+
+        var bits = BitConverter.DoubleToInt64Bits(value);
+        if (!constants.TryGetValue(bits, out var variable))
+        {
+            variable = Local();
+            body.Insert(0, LinqExpression.Assign(variable, Broadcast(LinqExpression.Constant(value))));
+            constants[bits] = variable;
+        }
+
+        return variable;
+    }
+
+    /// <summary>A scalar double expression as a value (broadcast to every lane).</summary>
+    public LinqExpression Broadcast(LinqExpression scalar) =>
+        Lanes ? LinqExpression.Call(typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double)])!, scalar) : scalar;
 
     /// <summary>Block variables the emitted code needs (declare them in the enclosing block).</summary>
     public List<ParameterExpression> Variables { get; } = [];
@@ -44,30 +79,32 @@ internal sealed class VariationalCode
     public int Dimension => model.Dimension * (1 + vectors);
 
     /// <summary>
-    /// Appends to <paramref name="body"/> the statements that compute the augmented derivative at
+    /// Appends to the block the statements that compute the augmented derivative at
     /// (<paramref name="time"/>, <paramref name="input"/>) and hand entry i to <paramref name="output"/>.
     /// <paramref name="input"/> must be cheap and side-effect free (a local or an array element): it is read
     /// once per use.
     /// </summary>
-    public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output, List<LinqExpression> body)
+    public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output)
     {
         var n = model.Dimension;
-        var emitter = new NodeEmitter(
-            typeof(double),
-            value => LinqExpression.Constant(value),
+        var now = model.UsesTime && Lanes ? Local(Broadcast(time)) : time;
+        NodeEmitter? emitter = null;
+        emitter = new NodeEmitter(
+            Type,
+            Constant,
             symbol => symbol.Kind switch
             {
                 SymbolKind.Variable => input(symbol.Index),
                 SymbolKind.Parameter => parameters[symbol.Index],
-                _ => time,
+                _ => now,
             },
-            (method, arguments) => LinqExpression.Call(method, arguments));
+            (method, arguments) => Lanes ? MapKernel.PerLane(emitter!, method, arguments) : LinqExpression.Call(method, arguments));
 
         // All values first, then the outputs: an output may overwrite an input (in-place stages).
         var values = new List<(int Index, LinqExpression Value)>();
         for (var i = 0; i < n; i++)
         {
-            values.Add((i, Local(emitter.Emit(model.Equations[i]), body)));
+            values.Add((i, Local(emitter.Emit(model.Equations[i]))));
         }
 
         if (vectors > 0)
@@ -77,7 +114,7 @@ internal sealed class VariationalCode
             {
                 if (model.Jacobian[entry] is not NumberNode { Value: 0 })
                 {
-                    jacobian[entry] = Local(emitter.Emit(model.Jacobian[entry]), body);
+                    jacobian[entry] = Local(emitter.Emit(model.Jacobian[entry]));
                 }
             }
 
@@ -96,7 +133,7 @@ internal sealed class VariationalCode
                         }
                     }
 
-                    values.Add((offset + i, Local(sum ?? LinqExpression.Constant(0.0), body)));
+                    values.Add((offset + i, Local(sum ?? Constant(0.0))));
                 }
             }
         }
@@ -108,15 +145,15 @@ internal sealed class VariationalCode
         }
     }
 
-    /// <summary>A new double local of the block.</summary>
+    /// <summary>A new local of the value type.</summary>
     public ParameterExpression Local()
     {
-        var local = LinqExpression.Variable(typeof(double));
+        var local = LinqExpression.Variable(Type);
         Variables.Add(local);
         return local;
     }
 
-    private ParameterExpression Local(LinqExpression value, List<LinqExpression> body)
+    private ParameterExpression Local(LinqExpression value)
     {
         var local = Local();
         body.Add(LinqExpression.Assign(local, value));

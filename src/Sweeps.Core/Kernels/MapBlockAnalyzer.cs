@@ -12,7 +12,7 @@ namespace Sweeps.Core.Kernels;
 /// and the same classification. Points the kernel flags (escape, non-finite values, a product outside the safe
 /// range — superstable orbits among them) are analysed again by the scalar analyzer. One per thread.
 /// </summary>
-public sealed class MapBlockAnalyzer
+public sealed class MapBlockAnalyzer : IBlockAnalyzer
 {
     private const int Lanes = MapKernel.Lanes;
     private const int Groups = MapKernel.Groups;
@@ -51,6 +51,10 @@ public sealed class MapBlockAnalyzer
 
     /// <summary>Points per block.</summary>
     public const int BlockSize = Lanes;
+
+    int IBlockAnalyzer.BlockSize => BlockSize;
+
+    IPointAnalyzer IBlockAnalyzer.Scalar => scalar;
 
     /// <summary>Whether the block analyzer applies: a one-variable map, no indicators, on a machine with 256-bit vectors.</summary>
     public static bool Supports(Model model, AnalysisSettings settings) =>

@@ -216,7 +216,7 @@ internal sealed class MapKernel
     }
 
     /// <summary>A function with no exact vector form: the scalar method on each lane, reassembled.</summary>
-    private static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
+    internal static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
     {
         var values = arguments.Select(_ => emitter.Temporary()).ToArray();
         var steps = arguments.Select((a, i) => (LinqExpression)LinqExpression.Assign(values[i], a)).ToList();

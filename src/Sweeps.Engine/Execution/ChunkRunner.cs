@@ -79,9 +79,9 @@ public static class ChunkRunner
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
         RunContext context, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
-        if (spec.Starts is null && !spec.Analysis.TransientCheck && MapBlockAnalyzer.Supports(context.Model, spec.Analysis))
+        if (Probing.AnalyzerFactory.CreateBlock(spec, context.Model) is { } block)
         {
-            return ComputeBlocks(context, spec, count, pointAt, progress, token);
+            return ComputeBlocks(block, spec, count, pointAt, progress, token);
         }
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
@@ -135,19 +135,19 @@ public static class ChunkRunner
     }
 
     /// <summary>
-    /// One-variable maps: 32 points at a time through the generated block kernel, which gives the scalar
-    /// analyzer's results bit for bit. A block whose analysis throws is redone point by point.
+    /// One-variable maps (32 points at a time) and fixed-step flows (4 at a time) through a generated block kernel,
+    /// which gives the scalar analyzer's results bit for bit. A block whose analysis throws is redone point by point.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputeBlocks(
-        RunContext context, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        IBlockAnalyzer block, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
-        var block = new MapBlockAnalyzer(context.Model, spec.Analysis);
-        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, 1, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
-        var attractors = new AttractorColumns(1);
-        var source = new Specs.BlockSource(spec);
+        var dimension = spec.Model.Variables.Count;
+        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
+        var attractors = new AttractorColumns(dimension);
+        var size = block.BlockSize;
+        var source = new Specs.BlockSource(spec, size);
         var (initial, parameters, axes, points) = (source.Initial, source.Parameters, source.AxisValues, source.Points);
-        var size = MapBlockAnalyzer.BlockSize;
         var results = new PointResult[size];
         for (var i = 0; i < count; i += size)
         {

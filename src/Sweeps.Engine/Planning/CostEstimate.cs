@@ -15,9 +15,9 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     public static CostEstimate Measure(SweepSpec spec, int samples = 12)
     {
         var model = ModelFactory.Build(spec);
-        if (spec.Starts is null && !spec.Analysis.TransientCheck && spec.Grid.Follow is null && Core.Kernels.MapBlockAnalyzer.Supports(model, spec.Analysis))
+        if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
         {
-            return MeasureBlocks(spec, model);
+            return MeasureBlocks(spec, block);
         }
 
         var analyzer = AnalyzerFactory.Create(spec, model);
@@ -49,13 +49,12 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         return new CostEstimate(count, perPoint, perPoint * points);
     }
 
-    /// <summary>Maps the block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
-    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Models.Model model)
+    /// <summary>Points a block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
+    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Kernels.IBlockAnalyzer block)
     {
-        var block = new Core.Kernels.MapBlockAnalyzer(model, spec.Analysis);
-        var size = Core.Kernels.MapBlockAnalyzer.BlockSize;
+        var size = block.BlockSize;
         var points = spec.Grid.PointCount;
-        var source = new BlockSource(spec);
+        var source = new BlockSource(spec, size);
         var (initial, parameters, results) = (source.Initial, source.Parameters, new PointResult[size]);
         void Fill(long first, int lanes) =>
             source.Fill(lanes, j => Math.Min(points - 1, first + ((long)j * Math.Max(1, points / (4 * size)))));

@@ -1,5 +1,6 @@
 using Sweeps.Core.Analysis;
 using Sweeps.Core.Integrators;
+using Sweeps.Core.Kernels;
 using Sweeps.Core.Models;
 using Sweeps.Engine.Specs;
 
@@ -31,6 +32,15 @@ public static class AnalyzerFactory
 
         return analyzer;
     }
+
+    /// <summary>
+    /// The block analyzer for a spec's model, where one applies: one start per point, no cross-checks (they
+    /// compare two scalar analyses) and no continuation (each point starts from the previous one's end).
+    /// </summary>
+    public static IBlockAnalyzer? CreateBlock(SweepSpec spec, Model model) =>
+        spec.Starts is null && !spec.Analysis.TransientCheck && !spec.Analysis.StepCheck && spec.Grid.Follow is null
+            ? BlockAnalyzers.Create(model, spec.Analysis, spec.Integrator, spec.Section)
+            : null;
 
     private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings, IntegratorSettings integrator) => model.Kind == ModelKind.Map
         ? new MapAnalyzer(model, settings)

@@ -1,7 +1,7 @@
 namespace Sweeps.Engine.Specs;
 
 /// <summary>
-/// A block of points for <see cref="Core.Kernels.MapBlockAnalyzer"/>: per lane, the point index, its initial
+/// A block of points for an <see cref="Core.Kernels.IBlockAnalyzer"/>: per lane, the point index, its initial
 /// state, parameters and axis values, filled from a <see cref="PointSource"/> into buffers reused for every
 /// block (the analyzer keeps nothing of them). One per thread.
 /// </summary>
@@ -9,10 +9,9 @@ public sealed class BlockSource
 {
     private readonly PointSource source;
 
-    public BlockSource(SweepSpec spec)
+    public BlockSource(SweepSpec spec, int size)
     {
         source = new PointSource(spec);
-        var size = Core.Kernels.MapBlockAnalyzer.BlockSize;
         Points = new long[size];
         Initial = Lanes(size, spec.Initial.Count);
         Parameters = Lanes(size, spec.Parameters.Count);

@@ -53,7 +53,7 @@ public sealed class MapBlockAnalyzerTests
                 block.Analyze(initial, parameters, count, results);
                 for (var i = 0; i < count; i++)
                 {
-                    Same(reference.Analyze(initial[i], parameters[i]), results[i], $"{name}, r = {parameters[i][0]:R}, {settings}");
+                    SameResult.Check(reference.Analyze(initial[i], parameters[i]), results[i], $"{name}, r = {parameters[i][0]:R}, {settings}");
                 }
             }
 
@@ -61,20 +61,4 @@ public sealed class MapBlockAnalyzerTests
             Assert.True(block.Rechecked < points / 2, $"{name}: {block.Rechecked} of {points} points were handed to the scalar path");
         }
     }
-
-    private static void Same(PointResult expected, PointResult actual, string where)
-    {
-        Assert.True(expected.Regime == actual.Regime && expected.Period == actual.Period, $"{where}: {expected.Regime}/{expected.Period} vs {actual.Regime}/{actual.Period}");
-        Assert.True(Bits(expected.Lyapunov) == Bits(actual.Lyapunov), $"{where}: exponents {Bits(expected.Lyapunov)} vs {Bits(actual.Lyapunov)}");
-        Assert.True(Bits(expected.LyapunovError) == Bits(actual.LyapunovError), $"{where}: errors");
-        Assert.True(Bits([expected.LogDetMean]) == Bits([actual.LogDetMean]), $"{where}: mean log det");
-        Assert.True(Bits(expected.FinalState) == Bits(actual.FinalState), $"{where}: final state");
-        Assert.True(Bits(expected.Samples) == Bits(actual.Samples), $"{where}: samples");
-        Assert.True(Bits(expected.Cycle.SelectMany(c => c).ToArray()) == Bits(actual.Cycle.SelectMany(c => c).ToArray()), $"{where}: cycle");
-        Assert.True(expected.Reason == actual.Reason, $"{where}: reason '{expected.Reason}' vs '{actual.Reason}'");
-        Assert.True(Bits(expected.Box?.Low ?? []) == Bits(actual.Box?.Low ?? []) && Bits(expected.Box?.High ?? []) == Bits(actual.Box?.High ?? []), $"{where}: box");
-        Assert.Equal(expected.DivergedAt, actual.DivergedAt);
-    }
-
-    private static string Bits(double[] values) => string.Join(",", values.Select(v => BitConverter.DoubleToInt64Bits(v).ToString("x16")));
 }

@@ -1,0 +1,23 @@
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Integrators;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Core.Kernels;
+
+/// <summary>Chooses the block analyzer for a model and its settings, where there is one.</summary>
+public static class BlockAnalyzers
+{
+    /// <summary>
+    /// A block analyzer for one-variable maps (<see cref="MapBlockAnalyzer"/>) or fixed-step flows
+    /// (<see cref="FlowBlockAnalyzer"/>); null where only the scalar analyzers apply.
+    /// </summary>
+    public static IBlockAnalyzer? Create(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings? section)
+    {
+        if (MapBlockAnalyzer.Supports(model, settings))
+        {
+            return new MapBlockAnalyzer(model, settings);
+        }
+
+        return FlowBlockAnalyzer.Supports(model, integrator) ? new FlowBlockAnalyzer(model, settings, integrator, section ?? new SectionSettings()) : null;
+    }
+}

@@ -1,0 +1,28 @@
+using Sweeps.Core.Analysis;
+
+namespace Sweeps.Core.Tests.Kernels;
+
+/// <summary>Two analyses of one point agree bit for bit: every number compared by its bits, every text exactly.</summary>
+internal static class SameResult
+{
+    public static void Check(PointResult expected, PointResult actual, string where)
+    {
+        Assert.True(expected.Regime == actual.Regime && expected.Period == actual.Period, $"{where}: {expected.Regime}/{expected.Period} vs {actual.Regime}/{actual.Period}");
+        Assert.True(Bits(expected.Lyapunov) == Bits(actual.Lyapunov), $"{where}: exponents {Bits(expected.Lyapunov)} vs {Bits(actual.Lyapunov)}");
+        Assert.True(Bits(expected.LyapunovError) == Bits(actual.LyapunovError), $"{where}: errors");
+        Assert.True(Bits([expected.LogDetMean]) == Bits([actual.LogDetMean]), $"{where}: mean log det");
+        Assert.True(Bits(expected.FinalState) == Bits(actual.FinalState), $"{where}: final state");
+        Assert.True(Bits(expected.Samples) == Bits(actual.Samples), $"{where}: samples");
+        Assert.True(Bits(expected.Cycle.SelectMany(c => c).ToArray()) == Bits(actual.Cycle.SelectMany(c => c).ToArray()), $"{where}: cycle");
+        Assert.True(expected.Reason == actual.Reason, $"{where}: reason '{expected.Reason}' vs '{actual.Reason}'");
+        Assert.True(Bits(expected.Box?.Low ?? []) == Bits(actual.Box?.Low ?? []) && Bits(expected.Box?.High ?? []) == Bits(actual.Box?.High ?? []), $"{where}: box");
+        Assert.True(Bits([expected.PeriodTime]) == Bits([actual.PeriodTime]), $"{where}: period time");
+        Assert.True(Bits(Values(expected.Indicators)) == Bits(Values(actual.Indicators)), $"{where}: indicators");
+        Assert.Equal(expected.DivergedAt, actual.DivergedAt);
+    }
+
+    private static double[] Values(Core.Indicators.IndicatorValues? indicators) =>
+        indicators is null ? [] : [indicators.K, indicators.PermutationEntropy, indicators.LempelZiv];
+
+    private static string Bits(double[] values) => string.Join(",", values.Select(v => BitConverter.DoubleToInt64Bits(v).ToString("x16")));
+}
