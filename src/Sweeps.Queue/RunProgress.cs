@@ -14,6 +14,7 @@ public sealed class RunProgress
         private long points;
         private long chunksDone;
         private long chunksFailed;
+        private TaskCompletionSource changed = new(TaskCreationOptions.RunContinuationsAsynchronously);
 
         public long Points => Interlocked.Read(ref points);
 
@@ -23,14 +24,25 @@ public sealed class RunProgress
 
         public ConcurrentQueue<string> Failures { get; } = new();
 
+        /// <summary>Completes when the next chunk is done or fails: a progress display waits on it instead of polling.</summary>
+        public Task NextChunk => Volatile.Read(ref changed).Task;
+
         public void AddPoints(long count) => Interlocked.Add(ref points, count);
 
-        public void ChunkDone() => Interlocked.Increment(ref chunksDone);
+        public void ChunkDone()
+        {
+            Interlocked.Increment(ref chunksDone);
+            Signal();
+        }
 
         public void ChunkFailed(long chunk, string message)
         {
             Failures.Enqueue($"chunk {chunk}: {message}");
             Interlocked.Increment(ref chunksFailed);
+            Signal();
         }
+
+        private void Signal() =>
+            Interlocked.Exchange(ref changed, new TaskCompletionSource(TaskCreationOptions.RunContinuationsAsynchronously)).TrySetResult();
     }
 }

@@ -2,8 +2,10 @@ using System.CommandLine;
 using System.Diagnostics;
 using Hangfire;
 using Microsoft.Extensions.DependencyInjection;
+using Microsoft.Extensions.Hosting;
 using Sweeps.Cli.Output;
 using Sweeps.Engine.Config;
+using Sweeps.Engine.Execution;
 using Sweeps.Engine.Planning;
 using Sweeps.Engine.Runs;
 using Sweeps.Engine.Specs;
@@ -33,13 +35,46 @@ internal static class RunCommand
         command.SetAction(async (parse, token) =>
         {
             var count = SweepSetup.Workers(parse.GetValue(workers));
-            var setup = SweepSetup.Prepare(parse.GetRequiredValue(config), parse.GetValue(set) ?? [], parse.GetValue(outDir), count);
-            return await RunAsync(cli, setup, count, token);
+            var path = parse.GetRequiredValue(config);
+            var overrides = parse.GetValue(set) ?? [];
+            var spec = SweepSetup.Load(path, overrides);
+
+            // Building the queue host, and the first job submission and Parquet write of the process, cost a few
+            // hundred milliseconds of compilation: done on other threads while this one plans and estimates.
+            var warm = Task.Run(() =>
+            {
+                var host = QueueHost.Build(new QueueSettings(count));
+                ChunkQueue.WarmUp(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>());
+                return host;
+            });
+            var writer = Task.Run(() => WarmUpWriterAsync(spec));
+            try
+            {
+                var setup = SweepSetup.Prepare(spec, path, overrides, parse.GetValue(outDir), count);
+                return await RunAsync(cli, setup, warm, count, token);
+            }
+            finally
+            {
+                (await warm).Dispose();
+                await writer;
+            }
         });
         return command;
     }
 
-    private static async Task<int> RunAsync(CliContext cli, SweepSetup setup, int workers, CancellationToken token)
+    private static async Task WarmUpWriterAsync(SweepSpec spec)
+    {
+        try
+        {
+            await PartWriter.WarmUpAsync(spec);
+        }
+        catch (Exception error) when (error is IOException or UnauthorizedAccessException)
+        {
+            // Only a head start: without a writable temporary folder the first part compiles the writer itself.
+        }
+    }
+
+    private static async Task<int> RunAsync(CliContext cli, SweepSetup setup, Task<IHost> warm, int workers, CancellationToken token)
     {
         var output = cli.Output;
         var estimate = setup.Estimate;
@@ -63,7 +98,7 @@ internal static class RunCommand
         var clock = Stopwatch.StartNew();
         if (missing.Count > 0)
         {
-            var stopped = await ComputeAsync(cli, run, missing, pointsToRun, workers, token);
+            var stopped = await ComputeAsync(cli, await warm, new RunContext(run, setup.Model), missing, pointsToRun, token);
             if (stopped is { } code)
             {
                 return code;
@@ -83,14 +118,15 @@ internal static class RunCommand
     }
 
     /// <summary>Computes the missing chunks on the embedded queue; returns an exit code if the run did not complete.</summary>
-    private static async Task<int?> ComputeAsync(CliContext cli, RunDirectory run, IReadOnlyList<long> missing, long pointsToRun, int workers, CancellationToken token)
+    private static async Task<int?> ComputeAsync(CliContext cli, IHost host, RunContext context, IReadOnlyList<long> missing, long pointsToRun, CancellationToken token)
     {
-        using var host = QueueHost.Build(new QueueSettings(workers));
+        var run = context.Run;
+        host.Services.GetRequiredService<RunContexts>().Add(context);
         var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
         ChunkQueue.Submit(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing);
         await host.StartAsync(CancellationToken.None);
         bool Pending() => counters.ChunksDone + counters.ChunksFailed < missing.Count;
-        await ProgressView.Create(cli.Output, cli.Interactive).ShowAsync(pointsToRun, () => counters.Points, Pending, token);
+        await ProgressView.Create(cli.Output, cli.Interactive).ShowAsync(pointsToRun, () => counters.Points, Pending, () => counters.NextChunk, token);
         await host.StopAsync(CancellationToken.None);
 
         if (token.IsCancellationRequested && Pending())

@@ -1,5 +1,7 @@
+using Sweeps.Core.Models;
 using Sweeps.Engine.Config;
 using Sweeps.Engine.Planning;
+using Sweeps.Engine.Probing;
 using Sweeps.Engine.Runs;
 using Sweeps.Engine.Specs;
 
@@ -9,21 +11,28 @@ namespace Sweeps.Cli.Commands;
 /// What run and submit share: the spec with its --set overrides, the run directory it goes to, and
 /// the chunk size — the existing run's when resuming, else the config's, else one planned from a timing.
 /// </summary>
-internal sealed record SweepSetup(SweepSpec Spec, string ConfigText, IReadOnlyList<string> Overrides, string Directory, long ChunkSize, CostEstimate? Estimate)
+internal sealed record SweepSetup(SweepSpec Spec, Model Model, string ConfigText, IReadOnlyList<string> Overrides, string Directory, long ChunkSize, CostEstimate? Estimate)
 {
-    public static SweepSetup Prepare(string configPath, IReadOnlyList<string> overrides, string? outDir, int workers)
+    public static SweepSetup Prepare(string configPath, IReadOnlyList<string> overrides, string? outDir, int workers) =>
+        Prepare(Load(configPath, overrides), configPath, overrides, outDir, workers);
+
+    /// <summary>The config with its --set overrides applied (validated: bad input throws here).</summary>
+    public static SweepSpec Load(string configPath, IReadOnlyList<string> overrides) =>
+        PointOverrides.ApplyToSpec(SpecReader.Load(configPath), overrides);
+
+    public static SweepSetup Prepare(SweepSpec spec, string configPath, IReadOnlyList<string> overrides, string? outDir, int workers)
     {
-        var spec = PointOverrides.ApplyToSpec(SpecReader.Load(configPath), overrides);
         var directory = outDir ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(configPath));
         var text = File.ReadAllText(configPath);
+        var model = ModelFactory.Build(spec);
         if (File.Exists(Path.Combine(directory, "run.json")))
         {
-            return new SweepSetup(spec, text, overrides, directory, RunDirectory.Open(directory).Manifest.ChunkSize, null);
+            return new SweepSetup(spec, model, text, overrides, directory, RunDirectory.Open(directory).Manifest.ChunkSize, null);
         }
 
-        var estimate = CostEstimate.Measure(spec);
+        var estimate = CostEstimate.Measure(spec, model);
         var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers);
-        return new SweepSetup(spec, text, overrides, directory, plan.ChunkSize, estimate);
+        return new SweepSetup(spec, model, text, overrides, directory, plan.ChunkSize, estimate);
     }
 
     public static int Workers(int? requested)

@@ -8,13 +8,13 @@ internal sealed class PlainProgressView(TextWriter output) : ProgressView
 {
     private static readonly TimeSpan Every = TimeSpan.FromSeconds(5);
 
-    public override async Task ShowAsync(long total, Func<long> done, Func<bool> poll, CancellationToken token)
+    public override async Task ShowAsync(long total, Func<long> done, Func<bool> poll, Func<Task> changed, CancellationToken token)
     {
         var clock = Stopwatch.StartNew();
         var next = Every;
         while (poll() && !token.IsCancellationRequested)
         {
-            await Task.Delay(100, CancellationToken.None);
+            await Wait(changed, 100);
             if (clock.Elapsed >= next)
             {
                 Write(total, done(), clock.Elapsed);

@@ -12,8 +12,15 @@ internal abstract class ProgressView
     public static ProgressView Create(TextWriter output, bool interactive) =>
         interactive ? new TerminalProgressView() : new PlainProgressView(output);
 
-    /// <summary>Runs <paramref name="poll"/> until it returns false, showing progress of done out of total.</summary>
-    public abstract Task ShowAsync(long total, Func<long> done, Func<bool> poll, CancellationToken token);
+    /// <summary>
+    /// Shows progress of done out of total until <paramref name="poll"/> returns false; <paramref name="changed"/>
+    /// gives a task that completes at the next chunk's end, so the display ends as soon as the work does.
+    /// </summary>
+    public abstract Task ShowAsync(long total, Func<long> done, Func<bool> poll, Func<Task> changed, CancellationToken token);
+
+    /// <summary>Waits for the next change or the refresh interval, whichever comes first.</summary>
+    protected static Task Wait(Func<Task> changed, int milliseconds) =>
+        Task.WhenAny(changed(), Task.Delay(milliseconds, CancellationToken.None));
 
     protected static string Rate(long done, TimeSpan elapsed) =>
         elapsed.TotalSeconds > 0 ? (done / elapsed.TotalSeconds).ToString("N0", CultureInfo.InvariantCulture) : "–";

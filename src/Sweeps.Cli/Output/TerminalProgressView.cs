@@ -6,7 +6,7 @@ namespace Sweeps.Cli.Output;
 /// <summary>A live progress bar on a terminal.</summary>
 internal sealed class TerminalProgressView : ProgressView
 {
-    public override async Task ShowAsync(long total, Func<long> done, Func<bool> poll, CancellationToken token)
+    public override async Task ShowAsync(long total, Func<long> done, Func<bool> poll, Func<Task> changed, CancellationToken token)
     {
         var clock = Stopwatch.StartNew();
         await AnsiConsole.Progress()
@@ -17,7 +17,7 @@ internal sealed class TerminalProgressView : ProgressView
                 var task = context.AddTask("points", maxValue: Math.Max(total, 1));
                 while (poll() && !token.IsCancellationRequested)
                 {
-                    await Task.Delay(200, CancellationToken.None);
+                    await Wait(changed, 200);
                     var now = done();
                     task.Value = now;
                     task.Description = $"{now:N0} of {total:N0} points · {Rate(now, clock.Elapsed)}/s · ETA {Eta(now, total, clock.Elapsed)}";

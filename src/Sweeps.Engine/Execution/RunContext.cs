@@ -13,10 +13,19 @@ namespace Sweeps.Engine.Execution;
 public sealed class RunContext
 {
     public RunContext(RunDirectory run)
+        : this(run, null)
+    {
+    }
+
+    /// <summary>
+    /// A context whose model was already built from the same spec in this process (the run command's, which
+    /// compiled it for the estimate): the compiled right-hand sides and block kernels are reused.
+    /// </summary>
+    public RunContext(RunDirectory run, Model? model)
     {
         Run = run;
         Spec = run.LoadSpec();
-        Model = ModelFactory.Build(Spec);
+        Model = model ?? ModelFactory.Build(Spec);
         Schema = new PartSchema(Spec);
         AttractorSchema = new AttractorSchema(Spec);
         Metadata = new Dictionary<string, string>

@@ -12,9 +12,11 @@ namespace Sweeps.Engine.Planning;
 /// </summary>
 public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, double TotalCpuSeconds)
 {
-    public static CostEstimate Measure(SweepSpec spec, int samples = 12)
+    public static CostEstimate Measure(SweepSpec spec, int samples = 12) => Measure(spec, ModelFactory.Build(spec), samples);
+
+    /// <summary>As <see cref="Measure(SweepSpec, int)"/> with the spec's model already built (its compiled kernels are then reused by whoever computes with it).</summary>
+    public static CostEstimate Measure(SweepSpec spec, Core.Models.Model model, int samples = 12)
     {
-        var model = ModelFactory.Build(spec);
         if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
         {
             return MeasureBlocks(spec, block);

@@ -8,17 +8,38 @@ namespace Sweeps.Engine.Runs;
 /// readers and resumes never see a partial part. Nothing time-dependent goes into it: the same chunk
 /// always gives the same bytes.
 /// </summary>
-internal static class PartWriter
+public static class PartWriter
 {
+    /// <summary>
+    /// Writes and deletes a one-row part of <paramref name="spec"/>'s schema in the temporary folder. The first
+    /// Parquet write of a process spends about a tenth of a second compiling the writer; a run does this on a
+    /// spare thread while it plans, so its first chunk does not wait for it.
+    /// </summary>
+    public static async Task WarmUpAsync(Specs.SweepSpec spec)
+    {
+        var n = spec.Model.Variables.Count;
+        var columns = new ChunkColumns(1, spec.Grid.Axes.Count, n, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
+        columns.Add(0, new double[spec.Grid.Axes.Count], Core.Analysis.PointResult.Stopped(Core.Analysis.Regime.Unresolved, n, new double[n], null, "warm-up"));
+        var path = Path.Combine(Path.GetTempPath(), $"sweeps-warm-up-{Guid.NewGuid():N}.parquet");
+        try
+        {
+            await WriteAsync(path, new PartSchema(spec), columns, new Dictionary<string, string>(), CancellationToken.None);
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
     /// <summary>Writes a point part; its footer also carries the part's counts (<see cref="PartTally"/>).</summary>
-    public static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
     {
         var withTally = metadata.ToDictionary();
         withTally[PartTally.Key] = PartTally.Of(columns).ToJson();
         return WriteFileAsync(path, schema.Schema, withTally, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
     }
 
-    public static Task WriteAsync(string path, AttractorSchema schema, AttractorColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
+    internal static Task WriteAsync(string path, AttractorSchema schema, AttractorColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
         WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
 
     private static async Task WriteFileAsync(
@@ -52,7 +73,7 @@ internal static class PartWriter
     }
 
     /// <summary>Writes the columns as one row group of an open writer (parts have one; a merged export one per part).</summary>
-    public static async Task WriteRowGroupAsync(ParquetWriter writer, PartSchema schema, ChunkColumns columns, CancellationToken token)
+    internal static async Task WriteRowGroupAsync(ParquetWriter writer, PartSchema schema, ChunkColumns columns, CancellationToken token)
     {
         using var group = writer.CreateRowGroup();
         var count = columns.Count;
@@ -91,7 +112,7 @@ internal static class PartWriter
             new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
             token);
 
-    public static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
+    internal static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
     {
         using var group = writer.CreateRowGroup();
         await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point.ToArray()), null, null, token);
