@@ -21,13 +21,18 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private double[] y;
     private readonly double[] jacobian;
     private readonly double[] scratch;
-    private readonly double[] tangent;
-    private readonly double[] product;
+    private double[] tangent;
+    private double[] product;
     private readonly double[] norms;
     private readonly double[] products;
     private readonly double[] sums;
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
+
+    // ln|det J| summed over the measurement, kept like the norms: a running product of |det J|, its logarithm taken
+    // every FlushEvery steps or when it leaves the safe range.
+    private double logDetSum;
+    private double detProduct;
 
     // The starting tangent frame is the same for every point: built once, copied per point.
     private readonly double[] frame;
@@ -93,7 +98,6 @@ public sealed class MapAnalyzer : IPointAnalyzer
         }
 
         ResetTangent();
-        var logDetSum = 0.0;
         var measure = settings.Measure;
         var half = measure / 2;
         var recordFrom = measure - detector.Capacity;
@@ -110,8 +114,13 @@ public sealed class MapAnalyzer : IPointAnalyzer
                 // For one variable ln|det J| is ln|f'|, the exponent itself: no second logarithm needed.
                 if (vectors == n && n > 1)
                 {
-                    jacobian.CopyTo(scratch, 0);
-                    logDetSum += SmallMatrix.LogAbsDeterminant(scratch, n);
+                    var running = detProduct * AbsDeterminant();
+                    detProduct = running;
+                    if (!(running is > SafeLow and < SafeHigh))
+                    {
+                        logDetSum += Math.Log(running);
+                        detProduct = 1;
+                    }
                 }
 
                 if ((step & (FlushEvery - 1)) == 0)
@@ -145,11 +154,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
         }
 
         FlushProducts();
-        return Classify(parameters, logDetSum);
+        return Classify(parameters);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private PointResult Classify(double[] parameters, double logDetSum)
+    private PointResult Classify(double[] parameters)
     {
         var (exponents, errors) = Exponents();
         var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
@@ -224,6 +233,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private void ResetTangent()
     {
         Array.Fill(products, 1.0);
+        logDetSum = 0;
+        detProduct = 1;
         Array.Clear(sums);
         Array.Clear(firstHalf);
         frame.CopyTo(tangent, 0);
@@ -271,7 +282,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             return false;
         }
 
-        product.AsSpan().CopyTo(tangent);
+        (tangent, product) = (product, tangent);
         for (var c = 0; c < vectors; c++)
         {
             // Norms are multiplied up and their logarithm taken every FlushEvery steps (or sooner when
@@ -288,6 +299,18 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return true;
     }
 
+    /// <summary>|det J| of the current Jacobian: the 2 × 2 formula, or elimination with pivoting on a copy.</summary>
+    private double AbsDeterminant()
+    {
+        if (n == 2)
+        {
+            return Math.Abs((jacobian[0] * jacobian[3]) - (jacobian[1] * jacobian[2]));
+        }
+
+        jacobian.CopyTo(scratch, 0);
+        return SmallMatrix.AbsDeterminant(scratch, n);
+    }
+
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void FlushProducts()
     {
@@ -295,6 +318,12 @@ public sealed class MapAnalyzer : IPointAnalyzer
         {
             sums[c] += n == 1 ? Log(products[c]) : Math.Log(products[c]);
             products[c] = 1;
+        }
+
+        if (detProduct != 1)
+        {
+            logDetSum += Math.Log(detProduct);
+            detProduct = 1;
         }
     }
 
@@ -332,8 +361,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
         }
 
         detector.Load(window);
-
-        return Classify(parameters, 0);
+        logDetSum = 0;
+        return Classify(parameters);
     }
 
     /// <summary>How many of the last measured states the period test keeps (2 · max period).</summary>

@@ -25,11 +25,14 @@ internal static class SmallMatrix
         }
     }
 
-    /// <summary>ln|det m| by Gaussian elimination with partial pivoting; destroys <paramref name="m"/>.</summary>
+    /// <summary>
+    /// |det m| by Gaussian elimination with partial pivoting, as the product of the pivots' magnitudes (no
+    /// logarithms: the map analyzer multiplies these up and takes a logarithm now and then); destroys <paramref name="m"/>.
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    public static double LogAbsDeterminant(Span<double> m, int n)
+    public static double AbsDeterminant(Span<double> m, int n)
     {
-        var sum = 0.0;
+        var product = 1.0;
         for (var column = 0; column < n; column++)
         {
             var pivot = column;
@@ -44,7 +47,7 @@ internal static class SmallMatrix
             var value = m[(pivot * n) + column];
             if (value == 0)
             {
-                return double.NegativeInfinity;
+                return 0;
             }
 
             if (pivot != column)
@@ -55,7 +58,7 @@ internal static class SmallMatrix
                 }
             }
 
-            sum += Math.Log(Math.Abs(value));
+            product *= Math.Abs(value);
             for (var row = column + 1; row < n; row++)
             {
                 var factor = m[(row * n) + column] / value;
@@ -66,7 +69,7 @@ internal static class SmallMatrix
             }
         }
 
-        return sum;
+        return product;
     }
 
     /// <summary>Eigenvalues of a row-major n×n matrix (MathNet.Numerics' EVD), sorted by decreasing modulus.</summary>
