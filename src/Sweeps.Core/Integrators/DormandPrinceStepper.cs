@@ -6,17 +6,19 @@ namespace Sweeps.Core.Integrators;
 /// with first-same-as-last stages, step-size control on the mixed error norm
 /// max_i |err_i| / (atol + rtol·max(|y_i|, |y_new_i|)), and the pair's fourth-order continuous
 /// extension for dense output (coefficients as in Hairer, Nørsett &amp; Wanner, Solving ODEs I, §II.6).
+/// When the system is <see cref="OdeSystem.Generated"/>, the six stages are one generated delegate
+/// (<see cref="DormandPrinceKernel"/>) doing the loops' operations in their order.
 /// </summary>
 public sealed class DormandPrinceStepper : Stepper
 {
     // Butcher tableau.
-    private const double C2 = 1.0 / 5, C3 = 3.0 / 10, C4 = 4.0 / 5, C5 = 8.0 / 9;
-    private const double A21 = 1.0 / 5;
-    private const double A31 = 3.0 / 40, A32 = 9.0 / 40;
-    private const double A41 = 44.0 / 45, A42 = -56.0 / 15, A43 = 32.0 / 9;
-    private const double A51 = 19372.0 / 6561, A52 = -25360.0 / 2187, A53 = 64448.0 / 6561, A54 = -212.0 / 729;
-    private const double A61 = 9017.0 / 3168, A62 = -355.0 / 33, A63 = 46732.0 / 5247, A64 = 49.0 / 176, A65 = -5103.0 / 18656;
-    private const double A71 = 35.0 / 384, A73 = 500.0 / 1113, A74 = 125.0 / 192, A75 = -2187.0 / 6784, A76 = 11.0 / 84;
+    internal const double C2 = 1.0 / 5, C3 = 3.0 / 10, C4 = 4.0 / 5, C5 = 8.0 / 9;
+    internal const double A21 = 1.0 / 5;
+    internal const double A31 = 3.0 / 40, A32 = 9.0 / 40;
+    internal const double A41 = 44.0 / 45, A42 = -56.0 / 15, A43 = 32.0 / 9;
+    internal const double A51 = 19372.0 / 6561, A52 = -25360.0 / 2187, A53 = 64448.0 / 6561, A54 = -212.0 / 729;
+    internal const double A61 = 9017.0 / 3168, A62 = -355.0 / 33, A63 = 46732.0 / 5247, A64 = 49.0 / 176, A65 = -5103.0 / 18656;
+    internal const double A71 = 35.0 / 384, A73 = 500.0 / 1113, A74 = 125.0 / 192, A75 = -2187.0 / 6784, A76 = 11.0 / 84;
 
     // Fifth-order weights minus fourth-order weights: the local error estimate.
     private const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 = -17253.0 / 339200, E6 = 22.0 / 525, E7 = -1.0 / 40;
@@ -26,6 +28,7 @@ public sealed class DormandPrinceStepper : Stepper
     private const double D5 = 701980252875.0 / 199316789632, D6 = -1453857185.0 / 822651844, D7 = 69997945.0 / 29380423;
 
     private readonly IntegratorSettings settings;
+    private readonly DormandPrinceStages? generated;
     private readonly double[] k1, k2, k3, k4, k5, k6, k7, stage, next;
     private readonly double[] r1, r2, r3, r4, r5;
     private double step;
@@ -39,6 +42,7 @@ public sealed class DormandPrinceStepper : Stepper
         (k1, k2, k3, k4, k5, k6, k7, stage, next) = (new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n]);
         (r1, r2, r3, r4, r5) = (new double[n], new double[n], new double[n], new double[n], new double[n]);
         step = settings.Step;
+        generated = system.Generated ? DormandPrinceKernel.Stages(system.Model, system.TangentVectors) : null;
     }
 
     /// <summary>Accepted steps and rejected trial steps since the last reset.</summary>
@@ -123,6 +127,12 @@ public sealed class DormandPrinceStepper : Stepper
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Stages(double[] y, double t, double h)
     {
+        if (generated is not null)
+        {
+            generated(y, System.Parameters, t, h, k1, k2, k3, k4, k5, k6, k7, next);
+            return;
+        }
+
         var n = y.Length;
         for (var i = 0; i < n; i++)
         {

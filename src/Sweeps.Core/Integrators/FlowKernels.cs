@@ -45,7 +45,7 @@ internal static class FlowKernels
     public static LaneStep Lanes(Model model, int vectors, IntegratorMethod method) =>
         (LaneStep)Cached(model, method + " lanes", vectors, () => BuildStep<LaneStep>(model, vectors, method, lanes: true));
 
-    private static Delegate Cached(Model model, string kind, int vectors, Func<Delegate> build) =>
+    internal static Delegate Cached(Model model, string kind, int vectors, Func<Delegate> build) =>
         Compiled.GetValue(model, _ => new()).GetOrAdd((kind, vectors), _ => new Lazy<Delegate>(build)).Value;
 
     private static VectorField BuildDerivative(Model model, int vectors)

@@ -70,6 +70,34 @@ public sealed class FlowKernelTests
         }
     }
 
+    /// <summary>Dormand–Prince with error control: accepted steps, rejections and the step size all follow the same bits.</summary>
+    [Theory]
+    [MemberData(nameof(Flows))]
+    public void GeneratedDormandPrince_EqualsReferenceStages_AlongAnOrbit(string name, double[] parameters)
+    {
+        var model = Build(name);
+        var settings = new IntegratorSettings(IntegratorMethod.Dopri5, 0.05, 1e-9, 1e-12);
+        var generated = (DormandPrinceStepper)Stepper.Create(new OdeSystem(model, model.Dimension) { Parameters = parameters }, settings);
+        var reference = (DormandPrinceStepper)Stepper.Create(new OdeSystem(model, model.Dimension, generated: false) { Parameters = parameters }, settings);
+        var y = Start(model);
+        var z = (double[])y.Clone();
+        var (t, s) = (0.0, 0.0);
+        var (fast, plain) = (new double[y.Length], new double[y.Length]);
+        while (t < 20)
+        {
+            Assert.True(generated.Advance(y, ref t, 20));
+            Assert.True(reference.Advance(z, ref s, 20));
+            Assert.Equal(s, t);
+            Assert.Equal(z, y);
+            generated.Interpolate(0.6, fast, y.Length);
+            reference.Interpolate(0.6, plain, z.Length);
+            Assert.Equal(plain, fast);
+        }
+
+        Assert.Equal(reference.Accepted, generated.Accepted);
+        Assert.Equal(reference.Rejected, generated.Rejected);
+    }
+
     /// <summary>Whole points through the analyzer: exponents, period and regime as the reference path gives them.</summary>
     [Fact]
     public void FlowAnalyzer_GivesReferenceResults_WithGeneratedSteps()

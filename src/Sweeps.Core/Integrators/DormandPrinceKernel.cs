@@ -1,0 +1,114 @@
+using System.Linq.Expressions;
+using Sweeps.Core.Models;
+using static Sweeps.Core.Integrators.DormandPrinceStepper;
+using LinqExpression = System.Linq.Expressions.Expression;
+
+namespace Sweeps.Core.Integrators;
+
+/// <summary>
+/// The six new stages of one Dormand–Prince trial step from (t, y) with step h and first slope k1: writes the
+/// slopes k2 … k7 and the fifth-order solution <paramref name="next"/> (k7 is the slope there).
+/// </summary>
+internal delegate void DormandPrinceStages(
+    double[] y, double[] p, double t, double h, double[] k1, double[] k2, double[] k3, double[] k4, double[] k5, double[] k6, double[] k7, double[] next);
+
+/// <summary>
+/// Generates <see cref="DormandPrinceStages"/> for a model: the stage loops of <see cref="DormandPrinceStepper"/>
+/// as straight-line code with the fused augmented right-hand side inlined, the stage states in locals — the same
+/// operations in the same order (stage = y + h·((a₁k₁ + a₂k₂) + …), the first one y + (h·a₂₁)·k₁), so the
+/// generated step gives the loops' bits. Compiled once per model and tangent-vector count.
+/// </summary>
+internal static class DormandPrinceKernel
+{
+    public static DormandPrinceStages Stages(Model model, int vectors) =>
+        (DormandPrinceStages)FlowKernels.Cached(model, "dopri5", vectors, () => Build(model, vectors));
+
+    private static DormandPrinceStages Build(Model model, int vectors)
+    {
+        var arrays = new[] { "y", "p", "k1", "k2", "k3", "k4", "k5", "k6", "k7", "next" }
+            .ToDictionary(name => name, name => LinqExpression.Parameter(typeof(double[]), name));
+        var (t, h) = (LinqExpression.Parameter(typeof(double), "t"), LinqExpression.Parameter(typeof(double), "h"));
+        var body = new List<LinqExpression>();
+        var code = new VariationalCode(model, vectors, lanes: false, arrays["p"], body);
+        var size = code.Dimension;
+        LinqExpression Element(string array, int i) => LinqExpression.ArrayAccess(arrays[array], LinqExpression.Constant(i));
+        ParameterExpression[] Load(string array)
+        {
+            var locals = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
+            for (var i = 0; i < size; i++)
+            {
+                body.Add(LinqExpression.Assign(locals[i], Element(array, i)));
+            }
+
+            return locals;
+        }
+
+        var y = Load("y");
+        var k = new List<ParameterExpression[]> { Load("k1") };
+        var stage = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
+
+        // Stage s is evaluated at t + c_s·h on y + h·Σ a_sj k_j; rows as in the stepper, zero coefficients left out.
+        (double C, double[] A)[] rows =
+        [
+            (C2, [A21]),
+            (C3, [A31, A32]),
+            (C4, [A41, A42, A43]),
+            (C5, [A51, A52, A53, A54]),
+            (1, [A61, A62, A63, A64, A65]),
+            (1, [A71, 0, A73, A74, A75, A76]),
+        ];
+        foreach (var (c, a) in rows)
+        {
+            var last = k.Count == 6;
+            var target = last ? Enumerable.Range(0, size).Select(_ => code.Local()).ToArray() : stage;
+            for (var i = 0; i < size; i++)
+            {
+                var increment = a.Length == 1
+                    ? LinqExpression.Multiply(LinqExpression.Multiply(h, LinqExpression.Constant(a[0])), k[0][i])
+                    : LinqExpression.Multiply(h, Sum(a, k, i));
+                body.Add(LinqExpression.Assign(target[i], LinqExpression.Add(y[i], increment)));
+            }
+
+            // The stepper evaluates the last two stages at t + h itself, the others at t + c·h.
+            LinqExpression time = c == 1 ? LinqExpression.Add(t, h) : LinqExpression.Add(t, LinqExpression.Multiply(LinqExpression.Constant(c), h));
+            var slope = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
+            code.Emit(i => target[i], time, (i, value) => LinqExpression.Assign(slope[i], value));
+            k.Add(slope);
+            if (last)
+            {
+                for (var i = 0; i < size; i++)
+                {
+                    body.Add(LinqExpression.Assign(Element("next", i), target[i]));
+                }
+            }
+        }
+
+        for (var s = 1; s < k.Count; s++)
+        {
+            for (var i = 0; i < size; i++)
+            {
+                body.Add(LinqExpression.Assign(Element($"k{s + 1}", i), k[s][i]));
+            }
+        }
+
+        body.Add(LinqExpression.Empty());
+        var parameters = new[] { arrays["y"], arrays["p"], t, h, arrays["k1"], arrays["k2"], arrays["k3"], arrays["k4"], arrays["k5"], arrays["k6"], arrays["k7"], arrays["next"] };
+        return LinqExpression.Lambda<DormandPrinceStages>(LinqExpression.Block(code.Variables, body), parameters).Compile();
+    }
+
+    /// <summary>((a₁·k₁ + a₂·k₂) + a₃·k₃) + …, left to right, skipping zero coefficients.</summary>
+    private static LinqExpression Sum(double[] a, List<ParameterExpression[]> k, int i)
+    {
+        LinqExpression? sum = null;
+        for (var j = 0; j < a.Length; j++)
+        {
+            if (a[j] != 0)
+            {
+                var term = LinqExpression.Multiply(LinqExpression.Constant(a[j]), k[j][i]);
+                sum = sum is null ? term : LinqExpression.Add(sum, term);
+            }
+        }
+
+        return sum!;
+    }
+}
