@@ -5,14 +5,16 @@ namespace Sweeps.Engine.Planning;
 /// <see cref="TargetSeconds"/> of compute, and there are at least <see cref="ChunksPerWorker"/> chunks
 /// per worker so that uneven points balance out; but a chunk never drops below
 /// <see cref="MinSeconds"/> of compute, which keeps the queue's per-job cost (~0.1 ms embedded, ~5 ms on
-/// PostgreSQL) under 2% of the work.
+/// PostgreSQL) under 2% of the work. A chunk also holds at most <see cref="MaxChunk"/> points: its columns
+/// and the Parquet writer's buffers live in memory until the part is written, and at an eighth of a million
+/// rows two workers stay well under a gigabyte (measured: a 10^8-point map sweep, see docs/performance.md).
 /// </summary>
 public sealed record ChunkPlan(long Points, long ChunkSize)
 {
     public const double TargetSeconds = 2.0;
     public const double MinSeconds = 0.25;
     public const int ChunksPerWorker = 4;
-    public const long MaxChunk = 1_000_000;
+    public const long MaxChunk = 125_000;
 
     public long ChunkCount => (Points + ChunkSize - 1) / ChunkSize;
 
