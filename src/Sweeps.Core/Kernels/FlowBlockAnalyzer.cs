@@ -228,7 +228,8 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
             if (++steps > integrator.MaxSteps)
             {
                 // The scalar analyzer's state still holds the step's start here.
-                StopAll(j => tracks[j].BudgetUsed(integrator.MaxSteps, t), endState: false, n);
+                var now = t;
+                StopAll(j => tracks[j].BudgetUsed(integrator.MaxSteps, now), endState: false, n);
                 break;
             }
 
@@ -315,8 +316,9 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         var h = Math.Min(integrator.Step, limit - t);
         if (!(h > 0))
         {
-            var now = t;
-            StopAll(j => tracks[j].StepFailed(tracks[j].State, "no time left to step", steps, now), endState: true, n);
+            // Locals, not the parameters, are captured: a captured parameter would put a closure on every call.
+            var (now, taken) = (t, steps);
+            StopAll(j => tracks[j].StepFailed(tracks[j].State, "no time left to step", taken, now), endState: true, n);
             return false;
         }
 
