@@ -140,7 +140,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
 
         for (var j = 0; j < Width; j++)
         {
-            if ((live & (1 << j)) != 0 && !PointResult.Bounded(tracks[j].State, settings.Escape))
+            if (Live(j) && !PointResult.Bounded(tracks[j].State, settings.Escape))
             {
                 Stop(j, tracks[j].Divergent(0, 0));
             }
@@ -160,19 +160,11 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         while (t < transientEnd && live != 0)
         {
             var before = t;
-            if (!Advance(plainStep, n, ref t, transientEnd, steps))
+            if (!Step(plainStep, n, ref t, transientEnd, ref steps, stateAtEnd: true))
             {
                 break;
             }
 
-            if (++steps > integrator.MaxSteps)
-            {
-                var now = t;
-                StopAll(j => tracks[j].BudgetUsed(integrator.MaxSteps, now), endState: true, n);
-                break;
-            }
-
-            StopEscaped(steps, t, n);
             if (before >= transientEnd / 2)
             {
                 meanSum += y[variable] * Vector256.Create(t - before);
@@ -220,20 +212,12 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
                 limit = Math.Min(limit, half);
             }
 
-            if (!Advance(tangentStep, size, ref t, limit, steps))
+            // Over the budget, the scalar analyzer's state still holds the step's start in this phase.
+            if (!Step(tangentStep, size, ref t, limit, ref steps, stateAtEnd: false))
             {
                 break;
             }
 
-            if (++steps > integrator.MaxSteps)
-            {
-                // The scalar analyzer's state still holds the step's start here.
-                var now = t;
-                StopAll(j => tracks[j].BudgetUsed(integrator.MaxSteps, now), endState: false, n);
-                break;
-            }
-
-            StopEscaped(steps, t, n);
             if (forced)
             {
                 if (t == strobe * forcingPeriod)
@@ -303,6 +287,30 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
                 Stop(j, tracks[j].Classify(start0, end, halfTime, trace[j], crossings[j]));
             }
         }
+    }
+
+    /// <summary>
+    /// One step of every lane, then the step budget and the escape test, in the scalar analyzer's order. False when
+    /// the phase ends: no step could be taken, or the budget is used up (every live lane stops, its state taken
+    /// from the step's end or, with <paramref name="stateAtEnd"/> false, its start).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private bool Step(LaneStep step, int count, ref double t, double limit, ref long steps, bool stateAtEnd)
+    {
+        if (!Advance(step, count, ref t, limit, steps))
+        {
+            return false;
+        }
+
+        if (++steps > integrator.MaxSteps)
+        {
+            var now = t;
+            StopAll(j => tracks[j].BudgetUsed(integrator.MaxSteps, now), stateAtEnd, n);
+            return false;
+        }
+
+        StopEscaped(steps, t, n);
+        return true;
     }
 
     /// <summary>
@@ -423,6 +431,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Stops the lanes whose state left ±escape: divergent at this step.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void StopEscaped(long steps, double t, int count)
     {
         var escape = Vector256.Create(settings.Escape);
@@ -443,6 +452,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Lanes whose section function went from <paramref name="before"/> to <paramref name="now"/> across the section, as <see cref="FlowTrack.Crosses"/> decides.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private int Crossings(Vector256<double> before, Vector256<double> now)
     {
         var zero = Vector256<double>.Zero;
