@@ -21,6 +21,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private double[] y;
     private readonly double[] jacobian;
     private readonly double[] scratch;
+    private readonly double[] cycleProduct;
+    private readonly double[] cycleScratch;
     private double[] tangent;
     private double[] product;
     private readonly double[] norms;
@@ -28,6 +30,10 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] sums;
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
+
+    // One variable: the running product of |f'| is split into mantissa and binary exponent every FlushEvery steps
+    // (exact), the exponents summed here; the logarithm is taken only at the half and at the end.
+    private long exponentSum;
 
     // ln|det J| summed over the measurement, kept like the norms: a running product of |det J|, its logarithm taken
     // every FlushEvery steps or when it leaves the safe range.
@@ -58,6 +64,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
         y = new double[n];
         jacobian = new double[n * n];
         scratch = new double[n * n];
+        cycleProduct = new double[n * n];
+        cycleScratch = new double[n * n];
         tangent = new double[n * vectors];
         product = new double[n * vectors];
         norms = new double[Math.Max(vectors, 1)];
@@ -140,6 +148,10 @@ public sealed class MapAnalyzer : IPointAnalyzer
             {
                 FlushProducts();
                 sums.AsSpan(0, vectors).CopyTo(firstHalf);
+                if (n == 1 && vectors == 1)
+                {
+                    firstHalf[0] = sums[0] + LogOf(products[0], exponentSum);
+                }
             }
 
             if (step > recordFrom)
@@ -154,6 +166,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
         }
 
         FlushProducts();
+        if (n == 1 && vectors == 1)
+        {
+            sums[0] += LogOf(products[0], exponentSum);
+        }
+
         return Classify(parameters);
     }
 
@@ -213,8 +230,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double CycleMultiplier(List<double[]> cycle, double[] parameters)
     {
-        var monodromy = new double[n * n];
-        var next = new double[n * n];
+        var (monodromy, next) = (cycleProduct, cycleScratch);
+        Array.Clear(monodromy);
         for (var i = 0; i < n; i++)
         {
             monodromy[(i * n) + i] = 1.0;
@@ -233,6 +250,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private void ResetTangent()
     {
         Array.Fill(products, 1.0);
+        exponentSum = 0;
         logDetSum = 0;
         detProduct = 1;
         Array.Clear(sums);
@@ -256,7 +274,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             products[0] = product;
             if (!(product is > SafeLow and < SafeHigh))
             {
-                sums[0] += Log(product);
+                sums[0] += Math.Log(product);
                 products[0] = 1;
             }
 
@@ -314,9 +332,20 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void FlushProducts()
     {
+        if (n == 1)
+        {
+            if (vectors == 1)
+            {
+                (products[0], var exponent) = Split(products[0]);
+                exponentSum += exponent;
+            }
+
+            return;
+        }
+
         for (var c = 0; c < vectors; c++)
         {
-            sums[c] += n == 1 ? Log(products[c]) : Math.Log(products[c]);
+            sums[c] += Math.Log(products[c]);
             products[c] = 1;
         }
 
@@ -339,11 +368,28 @@ public sealed class MapAnalyzer : IPointAnalyzer
     internal const int FlushInterval = FlushEvery;
 
     /// <summary>
-    /// The natural logarithm used for one-variable maps: the vectorised one, element by element (its result does
-    /// not depend on the lane or the vector width), so the block kernel, which takes it on whole vectors, agrees
-    /// with this path bit for bit.
+    /// A positive normal number as mantissa in [1, 2) and binary exponent — exact, so splitting the running product
+    /// changes no later bit of it, and cheap (no logarithm). The block kernel does the same on whole vectors.
     /// </summary>
-    internal static double Log(double value) => Vector256.Log(Vector256.Create(value)).ToScalar();
+    internal static (double Mantissa, long Exponent) Split(double value)
+    {
+        var bits = BitConverter.DoubleToInt64Bits(value);
+        return (BitConverter.Int64BitsToDouble((bits & MantissaBits) | OneBits), (bits >>> 52) - 1023);
+    }
+
+    internal const long MantissaBits = 0x000F_FFFF_FFFF_FFFF;
+
+    internal const long OneBits = 0x3FF0_0000_0000_0000;
+
+    /// <summary>
+    /// ln(mantissa · 2^exponent), with ln 2 in two parts (the high one has trailing zero bits, so exponent · hi is
+    /// exact): what the block kernel and this path both use, so they agree bit for bit.
+    /// </summary>
+    internal static double LogOf(double mantissa, long exponent) => (exponent * Ln2High) + (Math.Log(mantissa) + (exponent * Ln2Low));
+
+    private const double Ln2High = 6.93147180369123816490e-01;
+
+    private const double Ln2Low = 1.90821492927058770002e-10;
 
     /// <summary>
     /// Classifies a one-variable orbit computed elsewhere (by the block kernel): the sum of the logarithms of the
@@ -351,7 +397,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     /// the final state. Gives exactly what <see cref="Analyze"/> gives for the same orbit.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    internal PointResult Finish(double sum, double firstHalfSum, ReadOnlySpan<double> window, double final, double[] parameters)
+    internal PointResult Finish(double sum, double firstHalfSum, double final, double[] parameters)
     {
         x[0] = final;
         if (vectors > 0)
@@ -360,10 +406,15 @@ public sealed class MapAnalyzer : IPointAnalyzer
             firstHalf[0] = firstHalfSum;
         }
 
-        detector.Load(window);
         logDetSum = 0;
         return Classify(parameters);
     }
+
+    /// <summary>
+    /// Where the block kernel writes the last <paramref name="states"/> recorded states of the orbit (oldest first)
+    /// before it calls <see cref="Finish"/>: the period test's own storage.
+    /// </summary>
+    internal Span<double> Window(int states) => detector.Fill(states);
 
     /// <summary>How many of the last measured states the period test keeps (2 · max period).</summary>
     internal int WindowLength => detector.Capacity;

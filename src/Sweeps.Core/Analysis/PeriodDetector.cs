@@ -29,6 +29,9 @@ internal sealed class PeriodDetector
     // The window in time order, rebuilt by FindPeriod so that its comparisons index plainly (no ring arithmetic).
     private readonly double[] line;
 
+    // What the period test reads: the ring or line, whichever holds the states in time order (set by Linearize).
+    private double[] ordered = [];
+
     public int Capacity => 2 * maxPeriod;
 
     public int Count => count;
@@ -43,15 +46,16 @@ internal sealed class PeriodDetector
         Pushed = 0;
     }
 
-    /// <summary>Resets and stores <paramref name="states"/> (row-major, at most <see cref="Capacity"/> states, oldest first), as pushes would.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    public void Load(ReadOnlySpan<double> states)
+    /// <summary>
+    /// Resets to <paramref name="states"/> stored states (at most <see cref="Capacity"/>) and returns their storage, row-major
+    /// and oldest first, for the caller to write: the same as that many pushes, without a copy in between.
+    /// </summary>
+    public Span<double> Fill(int states)
     {
-        var stored = states.Length / n;
-        states.CopyTo(ring);
-        count = stored;
-        next = stored % Capacity;
-        Pushed = stored;
+        count = states;
+        next = states % Capacity;
+        Pushed = states;
+        return ring.AsSpan(0, states * n);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -123,8 +127,7 @@ internal sealed class PeriodDetector
             return 0;
         }
 
-        Linearize();
-        var values = line;
+        var values = Linearize();
         var last = (count * n) - 1;
         var (latest, scale) = (values[last], 1.0 + Math.Abs(values[last]));
         for (var p = 1; 2 * p <= count; p++)
@@ -170,7 +173,7 @@ internal sealed class PeriodDetector
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private bool Repeats(int p, double limit)
     {
-        var values = line;
+        var values = ordered;
         for (var i = (count * n) - 1; i >= p * n; i--)
         {
             var (a, b) = (values[i], values[i - (p * n)]);
@@ -183,13 +186,19 @@ internal sealed class PeriodDetector
         return true;
     }
 
-    /// <summary>Copies the stored states, oldest first, into <see cref="line"/>.</summary>
+    /// <summary>The stored states, oldest first: the ring itself when they start at its beginning, else a copy in <see cref="line"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Linearize()
+    private double[] Linearize()
     {
         var start = (next - count + Capacity) % Capacity;
+        if (start == 0)
+        {
+            return ordered = ring;
+        }
+
         var first = Math.Min(count, Capacity - start);
         Array.Copy(ring, start * n, line, 0, first * n);
         Array.Copy(ring, 0, line, first * n, (count - first) * n);
+        return ordered = line;
     }
 }

@@ -22,15 +22,15 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     private readonly AnalysisSettings settings;
     private readonly MapKernel kernel;
     private readonly int parameterCount;
-    private readonly bool exponents;
+    private readonly bool measuresGrowth;
     private readonly Vector256<double>[] x = new Vector256<double>[Groups];
     private readonly Vector256<double>[] p;
     private readonly Vector256<double>[] product = new Vector256<double>[Groups];
     private readonly Vector256<double>[] flagged = new Vector256<double>[Groups];
-    private readonly Vector256<double>[] sums = new Vector256<double>[Groups];
-    private readonly Vector256<double>[] firstHalf = new Vector256<double>[Groups];
+    private readonly Vector256<long>[] binaryExponents = new Vector256<long>[Groups];
+    private readonly Vector256<long>[] halfExponents = new Vector256<long>[Groups];
+    private readonly Vector256<double>[] halfMantissas = new Vector256<double>[Groups];
     private readonly double[] window;
-    private readonly double[] orbit;
 
     public MapBlockAnalyzer(Model model, AnalysisSettings settings)
     {
@@ -43,10 +43,9 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         scalar = new MapAnalyzer(model, settings);
         kernel = MapKernel.For(model, settings.Escape, MapAnalyzer.SafeLow, MapAnalyzer.SafeHigh);
         parameterCount = model.Source.Parameters.Count;
-        exponents = settings.Lyapunov != LyapunovMode.None;
+        measuresGrowth = settings.Lyapunov != LyapunovMode.None;
         p = new Vector256<double>[Math.Max(1, parameterCount * Groups)];
         window = new double[scalar.WindowLength * Lanes];
-        orbit = new double[scalar.WindowLength];
     }
 
     /// <summary>Points per block.</summary>
@@ -81,8 +80,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
 
         Array.Fill(product, Vector256<double>.One);
-        Array.Clear(sums);
-        Array.Clear(firstHalf);
+        Array.Clear(binaryExponents);
         var step = 0L;
         while (step < measure)
         {
@@ -96,34 +94,35 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
             if (step < recordFrom)
             {
                 next = Math.Min(next, recordFrom);
-                Advance(exponents ? kernel.Measure : kernel.Transient, next - step);
+                Advance(measuresGrowth ? kernel.Measure : kernel.Transient, next - step);
             }
             else
             {
                 // Recording: the kernel stores each state, slot-major, from this step's slot on.
-                var recording = exponents ? kernel.RecordMeasure : kernel.RecordPlain;
+                var recording = measuresGrowth ? kernel.RecordMeasure : kernel.RecordPlain;
                 recording(x, p, product, flagged, (int)(next - step), window, (int)(step - Math.Max(recordFrom, 0)));
             }
 
             step = next;
-            if (exponents && step % MapAnalyzer.FlushInterval == 0)
+            if (measuresGrowth && step % MapAnalyzer.FlushInterval == 0)
             {
                 Flush();
             }
 
             if (step == half)
             {
-                if (exponents)
+                if (measuresGrowth)
                 {
                     Flush();
                 }
 
-                Array.Copy(sums, firstHalf, Groups);
+                Array.Copy(binaryExponents, halfExponents, Groups);
+                Array.Copy(product, halfMantissas, Groups);
             }
 
         }
 
-        if (exponents)
+        if (measuresGrowth)
         {
             Flush();
         }
@@ -165,13 +164,18 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
     }
 
+    /// <summary>Splits each running product into mantissa and binary exponent (<see cref="MapAnalyzer.Split"/>, lane-wise).</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Flush()
     {
+        var mantissa = Vector256.Create(MapAnalyzer.MantissaBits);
+        var one = Vector256.Create(MapAnalyzer.OneBits);
+        var bias = Vector256.Create(1023L);
         for (var g = 0; g < Groups; g++)
         {
-            sums[g] += Vector256.Log(product[g]);
-            product[g] = Vector256<double>.One;
+            var bits = product[g].AsInt64();
+            binaryExponents[g] += Vector256.ShiftRightLogical(bits, 52) - bias;
+            product[g] = ((bits & mantissa) | one).AsDouble();
         }
     }
 
@@ -187,12 +191,15 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
                 continue;
             }
 
-            for (var slot = 0; slot < recorded; slot++)
+            var orbit = scalar.Window(recorded);
+            for (var slot = 0; slot < orbit.Length; slot++)
             {
                 orbit[slot] = window[(slot * Lanes) + i];
             }
 
-            results[i] = scalar.Finish(sums[g].GetElement(e), firstHalf[g].GetElement(e), orbit.AsSpan(0, recorded), x[g].GetElement(e), parameters[i]);
+            var sum = measuresGrowth ? MapAnalyzer.LogOf(product[g].GetElement(e), binaryExponents[g].GetElement(e)) : 0;
+            var firstHalf = measuresGrowth ? MapAnalyzer.LogOf(halfMantissas[g].GetElement(e), halfExponents[g].GetElement(e)) : 0;
+            results[i] = scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i]);
         }
     }
 
