@@ -59,6 +59,7 @@ internal static class DirectLoop
         threads.ForEach(t => t.Start());
         threads.ForEach(t => t.Join());
         var seconds = clock.Elapsed.TotalSeconds;
-        Console.WriteLine(FormattableString.Invariant($"direct {points} points {seconds:F2} s {points / seconds:F0} points/s checksum {checksums.Sum():G6}"));
+        Console.WriteLine(FormattableString.Invariant(
+            $"direct {points} points {seconds:F2} s {points / seconds:F0} points/s checksum {checksums.Sum():G6} collections {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} allocated {GC.GetTotalAllocatedBytes() / 1048576} MiB paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s"));
     }
 }

@@ -16,8 +16,10 @@ public static class QueueHost
 {
     public static IHost Build(QueueSettings settings, bool serve = true)
     {
-        var builder = Host.CreateApplicationBuilder();
-        builder.Logging.ClearProviders();
+        // The empty builder: no configuration files, environment or command-line sources and no logging providers
+        // (the default builder's JSON sources even start a file watcher) — a tenth of a second less to start.
+        var builder = Host.CreateEmptyApplicationBuilder(new HostApplicationBuilderSettings());
+        builder.Services.AddLogging();
         builder.Services.Configure<HostOptions>(o => o.ShutdownTimeout = TimeSpan.FromSeconds(30));
         builder.Services.AddSingleton<RunContexts>();
         builder.Services.AddSingleton<RunProgress>();

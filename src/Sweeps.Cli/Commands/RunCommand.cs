@@ -37,19 +37,20 @@ internal static class RunCommand
             var count = SweepSetup.Workers(parse.GetValue(workers));
             var path = parse.GetRequiredValue(config);
             var overrides = parse.GetValue(set) ?? [];
-            var spec = SweepSetup.Load(path, overrides);
 
             // Building the queue host, and the first job submission and Parquet write of the process, cost a few
-            // hundred milliseconds of compilation: done on other threads while this one plans and estimates.
+            // hundred milliseconds of compilation: done on other threads while this one reads, plans and estimates.
             var warm = Task.Run(() =>
             {
                 var host = QueueHost.Build(new QueueSettings(count));
                 ChunkQueue.WarmUp(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>());
                 return host;
             });
-            var writer = Task.Run(() => WarmUpWriterAsync(spec));
+            var writer = Task.CompletedTask;
             try
             {
+                var spec = SweepSetup.Load(path, overrides);
+                writer = Task.Run(() => WarmUpWriterAsync(spec));
                 var setup = SweepSetup.Prepare(spec, path, overrides, parse.GetValue(outDir), count);
                 return await RunAsync(cli, setup, warm, count, token);
             }

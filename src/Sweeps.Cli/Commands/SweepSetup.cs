@@ -30,7 +30,7 @@ internal sealed record SweepSetup(SweepSpec Spec, Model Model, string ConfigText
             return new SweepSetup(spec, model, text, overrides, directory, RunDirectory.Open(directory).Manifest.ChunkSize, null);
         }
 
-        var estimate = CostEstimate.Measure(spec, model);
+        var estimate = CostEstimate.Measure(spec, model, quick: true);
         var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers);
         return new SweepSetup(spec, model, text, overrides, directory, plan.ChunkSize, estimate);
     }

@@ -12,14 +12,19 @@ namespace Sweeps.Engine.Planning;
 /// </summary>
 public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, double TotalCpuSeconds)
 {
-    public static CostEstimate Measure(SweepSpec spec, int samples = 12) => Measure(spec, ModelFactory.Build(spec), samples);
+    public static CostEstimate Measure(SweepSpec spec, int samples = 12) => Measure(spec, ModelFactory.Build(spec), samples: samples);
 
-    /// <summary>As <see cref="Measure(SweepSpec, int)"/> with the spec's model already built (its compiled kernels are then reused by whoever computes with it).</summary>
-    public static CostEstimate Measure(SweepSpec spec, Core.Models.Model model, int samples = 12)
+    /// <summary>
+    /// As <see cref="Measure(SweepSpec, int)"/> with the spec's model already built (its compiled kernels are then reused by
+    /// whoever computes with it). <paramref name="quick"/>: a block kernel is timed after one warm-up block instead of a
+    /// few tenths of a second of them — code the runtime has not optimised yet then weighs in, so the figure errs high,
+    /// which only ever makes planned chunks smaller; <c>run</c> plans with it and starts sooner.
+    /// </summary>
+    public static CostEstimate Measure(SweepSpec spec, Core.Models.Model model, bool quick = false, int samples = 12)
     {
         if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
         {
-            return MeasureBlocks(spec, block);
+            return MeasureBlocks(spec, block, quick);
         }
 
         var analyzer = AnalyzerFactory.Create(spec, model);
@@ -52,7 +57,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     }
 
     /// <summary>Points a block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
-    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Kernels.IBlockAnalyzer block)
+    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Kernels.IBlockAnalyzer block, bool quick)
     {
         var size = block.BlockSize;
         var points = spec.Grid.PointCount;
@@ -63,15 +68,16 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
 
         // Warm-up: long enough for tiered compilation to have optimised the per-point code too (it promotes
         // methods after ~30 calls and a 100 ms delay; before that the estimate is several times pessimistic).
-        // Large grids are worth the 0.3 s; for small ones a rough figure will do and start-up matters more.
+        // Large grids are worth the 0.3 s for a careful figure; for small ones, or a quick one, a rough figure will do.
         var lanes = (int)Math.Min(size, points);
         Fill(0, lanes);
         var warmUp = Stopwatch.StartNew();
-        var budget = points > 100_000 ? 0.3 : 0.02;
-        while (warmUp.Elapsed.TotalSeconds < budget)
+        var budget = points > 100_000 && !quick ? 0.3 : 0.02;
+        do
         {
             block.Analyze(initial, parameters, lanes, results);
         }
+        while (warmUp.Elapsed.TotalSeconds < budget);
 
         // Four places along the grid, each timed five times; the median of each (a block is short enough for
         // one collection or a background compilation to multiply its time).

@@ -1,3 +1,4 @@
+using System.Buffers;
 using Sweeps.Core.Analysis;
 
 namespace Sweeps.Engine.Runs;
@@ -11,9 +12,10 @@ internal sealed class ChunkColumns
     {
         // Sized for the samples a row holds at most, so the lists never regrow while a chunk is computed.
         var levels = (long)capacity * Math.Max(1, samples * dimension);
-        SampleValues = new List<double>((int)Math.Min(levels, 1 << 27));
-        SampleDefinitions = new List<int>((int)Math.Min(levels, 1 << 27));
-        SampleRepetitions = new List<int>((int)Math.Min(levels, 1 << 27));
+        var sized = (int)Math.Clamp(levels, 1, 1 << 27);
+        SampleValues = new ArrayBufferWriter<double>(sized);
+        SampleDefinitions = new ArrayBufferWriter<int>(sized);
+        SampleRepetitions = new ArrayBufferWriter<int>(sized);
         Hysteresis = branches ? new bool[capacity] : [];
         Backward = branches ? new ChunkColumns(capacity, 0, dimension, samples: samples) : null;
         Indicators = Columns(indicators ? 3 : 0, capacity);
@@ -64,12 +66,15 @@ internal sealed class ChunkColumns
     /// <summary>Continuation sweeps: the backward branch, row for row (null otherwise).</summary>
     public ChunkColumns? Backward { get; }
 
-    /// <summary>Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list; repetition 0 starts a row.</summary>
-    public List<double> SampleValues { get; }
+    /// <summary>
+    /// Flattened sample values with the Parquet levels of a list column: definition 2 = a value, 1 = an empty list;
+    /// repetition 0 starts a row. Buffers whose written part goes to the writer as it is (no copy).
+    /// </summary>
+    public ArrayBufferWriter<double> SampleValues { get; }
 
-    public List<int> SampleDefinitions { get; }
+    public ArrayBufferWriter<int> SampleDefinitions { get; }
 
-    public List<int> SampleRepetitions { get; }
+    public ArrayBufferWriter<int> SampleRepetitions { get; }
 
     public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1)
     {
@@ -100,19 +105,21 @@ internal sealed class ChunkColumns
         }
 
         Reason[row] = result.Reason;
-        if (result.Samples.Length == 0)
+        var samples = result.Samples.Length;
+        if (samples == 0)
         {
-            SampleDefinitions.Add(1);
-            SampleRepetitions.Add(0);
+            Append(SampleDefinitions, 1);
+            Append(SampleRepetitions, 0);
             return;
         }
 
-        for (var i = 0; i < result.Samples.Length; i++)
-        {
-            SampleValues.Add(result.Samples[i]);
-            SampleDefinitions.Add(2);
-            SampleRepetitions.Add(i == 0 ? 0 : 1);
-        }
+        SampleValues.Write(result.Samples);
+        SampleDefinitions.GetSpan(samples)[..samples].Fill(2);
+        SampleDefinitions.Advance(samples);
+        var repetitions = SampleRepetitions.GetSpan(samples)[..samples];
+        repetitions.Fill(1);
+        repetitions[0] = 0;
+        SampleRepetitions.Advance(samples);
     }
 
     /// <summary>Adds the backward branch of the row just added.</summary>
@@ -134,15 +141,21 @@ internal sealed class ChunkColumns
             row.Clear();
             do
             {
-                if (columns.SampleDefinitions[level] == 2)
+                if (columns.SampleDefinitions.WrittenSpan[level] == 2)
                 {
-                    row.Add(columns.SampleValues[value++]);
+                    row.Add(columns.SampleValues.WrittenSpan[value++]);
                 }
 
                 level++;
             }
-            while (level < columns.SampleRepetitions.Count && columns.SampleRepetitions[level] != 0);
+            while (level < columns.SampleRepetitions.WrittenCount && columns.SampleRepetitions.WrittenSpan[level] != 0);
         }
+    }
+
+    private static void Append(ArrayBufferWriter<int> levels, int level)
+    {
+        levels.GetSpan(1)[0] = level;
+        levels.Advance(1);
     }
 
     private static double[][] Columns(int count, int capacity)

@@ -1,3 +1,4 @@
+using System.Buffers;
 using Parquet;
 using Parquet.Schema;
 
@@ -77,9 +78,9 @@ internal static class PartReader
         var repetitions = new int[levels];
         await group.ReadRawAsync<double>(field, values, definitions, repetitions, token);
         var used = definitions.Count(d => d == 2);
-        columns.SampleValues.AddRange(values.Take(used));
-        columns.SampleDefinitions.AddRange(definitions);
-        columns.SampleRepetitions.AddRange(repetitions);
+        columns.SampleValues.Write(values.AsSpan(0, used));
+        columns.SampleDefinitions.Write(definitions);
+        columns.SampleRepetitions.Write(repetitions);
     }
 
     private static async Task Read<T>(ParquetRowGroupReader group, DataField field, Memory<T> target, CancellationToken token)

@@ -107,9 +107,9 @@ public static class PartWriter
     private static Task WriteSamples(ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token) =>
         group.WriteAllPartsAsync<double>(
             field,
-            columns.SampleValues.ToArray(),
-            new ReadOnlyMemory<int>(columns.SampleDefinitions.ToArray()),
-            new ReadOnlyMemory<int>(columns.SampleRepetitions.ToArray()),
+            columns.SampleValues.WrittenMemory,
+            columns.SampleDefinitions.WrittenMemory,
+            columns.SampleRepetitions.WrittenMemory,
             token);
 
     internal static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
