@@ -38,7 +38,9 @@ public static class ChunkRunner
         }
 
         await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
-        return columns.Count;
+        var count = columns.Count;
+        context.ReturnColumns(columns);
+        return count;
     }
 
     /// <summary>
@@ -53,7 +55,8 @@ public static class ChunkRunner
             return;
         }
 
-        var (columns, attractors) = ComputePoints(context, spec, points.Length, i => points[i], null, token);
+        var fresh = new ChunkColumns(points.Length, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
+        var (columns, attractors) = ComputePoints(context, spec, fresh, points.Length, i => points[i], null, token);
         if (context.WritesAttractors)
         {
             await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
@@ -72,21 +75,21 @@ public static class ChunkRunner
         var manifest = context.Run.Manifest;
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
-        return ComputePoints(context, context.Spec, (int)(last - first), i => first + i, progress, token);
+        var count = (int)(last - first);
+        return ComputePoints(context, context.Spec, context.RentColumns(count), count, i => first + i, progress, token);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
-        RunContext context, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        RunContext context, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
         if (Probing.AnalyzerFactory.CreateBlock(spec, context.Model) is { } block)
         {
-            return ComputeBlocks(block, spec, count, pointAt, progress, token);
+            return ComputeBlocks(block, spec, columns, count, pointAt, progress, token);
         }
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var starts = spec.Starts is { } startSpec ? new Specs.StartSource(startSpec, dimension) : null;
@@ -140,10 +143,9 @@ public static class ChunkRunner
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputeBlocks(
-        IBlockAnalyzer block, Specs.SweepSpec spec, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        IBlockAnalyzer block, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns(count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
         var attractors = new AttractorColumns(dimension);
         var size = block.BlockSize;
         var source = new Specs.BlockSource(spec, size);

@@ -1,3 +1,4 @@
+using System.Collections.Concurrent;
 using Sweeps.Core.Models;
 using Sweeps.Engine.Probing;
 using Sweeps.Engine.Runs;
@@ -51,4 +52,30 @@ public sealed class RunContext
     public bool WritesAttractors => Spec.StartCount > 1 || Spec.Grid.Follow is not null;
 
     public IReadOnlyDictionary<string, string> Metadata { get; }
+
+    // Columns of written chunks, kept for the next chunk: a chunk's columns are large arrays (a megabyte each at the
+    // largest chunk size), and fresh ones cost page faults, zeroing and collections of the large-object heap. At most
+    // one set per worker is in use at a time, so the pool holds at most that many.
+    private readonly ConcurrentBag<ChunkColumns> spareColumns = [];
+
+    /// <summary>Empty columns for <paramref name="count"/> rows of this run's spec: a returned set when one is big enough.</summary>
+    internal ChunkColumns RentColumns(int count)
+    {
+        if (Spec.Grid.Follow is null && spareColumns.TryTake(out var columns) && columns.Capacity >= count)
+        {
+            columns.Clear();
+            return columns;
+        }
+
+        return new ChunkColumns(count, Spec.Grid.Axes.Count, Spec.Model.Variables.Count, Spec.Analysis.Indicators, samples: Spec.Analysis.Samples);
+    }
+
+    /// <summary>Gives back columns whose part is written (their contents are no longer needed).</summary>
+    internal void ReturnColumns(ChunkColumns columns)
+    {
+        if (columns.Backward is null && columns.Capacity == Run.Manifest.ChunkSize)
+        {
+            spareColumns.Add(columns);
+        }
+    }
 }

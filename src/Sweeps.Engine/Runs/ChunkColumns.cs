@@ -34,6 +34,19 @@ internal sealed class ChunkColumns
 
     public int Count { get; private set; }
 
+    /// <summary>Rows the columns hold at most.</summary>
+    public int Capacity => Point.Length;
+
+    /// <summary>Empties the columns for reuse (rows are overwritten as they are added again).</summary>
+    public void Clear()
+    {
+        Count = 0;
+        SampleValues.ResetWrittenCount();
+        SampleDefinitions.ResetWrittenCount();
+        SampleRepetitions.ResetWrittenCount();
+        Backward?.Clear();
+    }
+
     /// <summary>Sets the row count after the columns were filled directly (by a reader).</summary>
     public void SetCount(int count) => Count = count;
 
