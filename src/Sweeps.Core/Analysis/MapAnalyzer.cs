@@ -31,9 +31,13 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] firstHalf;
     private readonly PeriodDetector detector;
 
-    // One variable: the running product of |f'| is split into mantissa and binary exponent every FlushEvery steps
-    // (exact), the exponents summed here; the logarithm is taken only at the half and at the end.
-    private long exponentSum;
+    // The running products of the tangent growths (and of |det J|) are split into mantissa and binary exponent every
+    // FlushEvery steps (exact), the exponents summed here; logarithms are taken only at the half and at the end.
+    private readonly long[] exponentSums;
+    private long detExponent;
+
+    // Several variables: Df, Df·Q and f in one generated call, the code the lanes of the block analyzer run.
+    private readonly Kernels.MapStep<double>? tangentStep;
 
     // ln|det J| summed over the measurement, kept like the norms: a running product of |det J|, its logarithm taken
     // every FlushEvery steps or when it leaves the safe range.
@@ -71,6 +75,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
         norms = new double[Math.Max(vectors, 1)];
         products = new double[Math.Max(vectors, 1)];
         sums = new double[Math.Max(vectors, 1)];
+        exponentSums = new long[Math.Max(vectors, 1)];
+        tangentStep = n > 1 && vectors > 0 ? Kernels.MapStepCode.Scalar(model, vectors) : null;
         firstHalf = new double[Math.Max(vectors, 1)];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
         frame = TangentFrame.Initial(n, vectors);
@@ -113,7 +119,16 @@ public sealed class MapAnalyzer : IPointAnalyzer
         {
             if (vectors > 0)
             {
-                model.EvaluateJacobian(x, parameters, 0, jacobian);
+                if (tangentStep is { } fused)
+                {
+                    // Several variables: Df, Df·Q and f(x) in one generated call (the block analyzer's code).
+                    fused(x, parameters, tangent, product, jacobian, y);
+                }
+                else
+                {
+                    model.EvaluateJacobian(x, parameters, 0, jacobian);
+                }
+
                 if (!AdvanceTangent())
                 {
                     return Unresolved($"non-finite tangent vector at iteration {settings.Transient + step}");
@@ -137,7 +152,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
                 }
             }
 
-            model.Evaluate(x, parameters, 0, y);
+            if (tangentStep is null || vectors == 0)
+            {
+                model.Evaluate(x, parameters, 0, y);
+            }
+
             (x, y) = (y, x);
             if (!PointResult.Bounded(x, settings.Escape))
             {
@@ -147,10 +166,9 @@ public sealed class MapAnalyzer : IPointAnalyzer
             if (step == half)
             {
                 FlushProducts();
-                sums.AsSpan(0, vectors).CopyTo(firstHalf);
-                if (n == 1 && vectors == 1)
+                for (var c = 0; c < vectors; c++)
                 {
-                    firstHalf[0] = sums[0] + LogOf(products[0], exponentSum);
+                    firstHalf[c] = sums[c] + LogOf(products[c], exponentSums[c]);
                 }
             }
 
@@ -166,11 +184,12 @@ public sealed class MapAnalyzer : IPointAnalyzer
         }
 
         FlushProducts();
-        if (n == 1 && vectors == 1)
+        for (var c = 0; c < vectors; c++)
         {
-            sums[0] += LogOf(products[0], exponentSum);
+            sums[c] += LogOf(products[c], exponentSums[c]);
         }
 
+        logDetSum += LogOf(detProduct, detExponent);
         return Classify(parameters);
     }
 
@@ -250,9 +269,10 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private void ResetTangent()
     {
         Array.Fill(products, 1.0);
-        exponentSum = 0;
+        Array.Clear(exponentSums);
         logDetSum = 0;
         detProduct = 1;
+        detExponent = 0;
         Array.Clear(sums);
         Array.Clear(firstHalf);
         frame.CopyTo(tangent, 0);
@@ -281,20 +301,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             return true;
         }
 
-        for (var c = 0; c < vectors; c++)
-        {
-            for (var i = 0; i < n; i++)
-            {
-                var sum = 0.0;
-                for (var k = 0; k < n; k++)
-                {
-                    sum += jacobian[(i * n) + k] * tangent[(c * n) + k];
-                }
-
-                product[(c * n) + i] = sum;
-            }
-        }
-
+        // Df·Q is in product already (the generated step computed it).
         if (!Orthonormalizer.Orthonormalize(product, n, vectors, norms))
         {
             return false;
@@ -332,28 +339,14 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void FlushProducts()
     {
-        if (n == 1)
-        {
-            if (vectors == 1)
-            {
-                (products[0], var exponent) = Split(products[0]);
-                exponentSum += exponent;
-            }
-
-            return;
-        }
-
         for (var c = 0; c < vectors; c++)
         {
-            sums[c] += Math.Log(products[c]);
-            products[c] = 1;
+            (products[c], var exponent) = Split(products[c]);
+            exponentSums[c] += exponent;
         }
 
-        if (detProduct != 1)
-        {
-            logDetSum += Math.Log(detProduct);
-            detProduct = 1;
-        }
+        (detProduct, var detBits) = Split(detProduct);
+        detExponent += detBits;
     }
 
     /// <summary>The running product of tangent growths is renormalised (its logarithm taken) when it leaves this range.</summary>
@@ -411,8 +404,24 @@ public sealed class MapAnalyzer : IPointAnalyzer
     }
 
     /// <summary>
+    /// Classifies an orbit of a map of several variables computed elsewhere (by <see cref="Kernels.MapLaneAnalyzer"/>):
+    /// the final state, per tangent vector the sum of the logarithms of its growth over the measurement and over its
+    /// first half, the sum of ln|det J| (0 unless the full spectrum was computed), and the last recorded states written
+    /// into <see cref="Window"/> beforehand. Gives exactly what <see cref="Analyze"/> gives for the same orbit.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal PointResult Finish(ReadOnlySpan<double> final, ReadOnlySpan<double> growthSums, ReadOnlySpan<double> firstHalfSums, double logDet, double[] parameters)
+    {
+        final.CopyTo(x);
+        growthSums.CopyTo(sums);
+        firstHalfSums.CopyTo(firstHalf);
+        logDetSum = logDet;
+        return Classify(parameters);
+    }
+
+    /// <summary>
     /// Where the block kernel writes the last <paramref name="states"/> recorded states of the orbit (oldest first)
-    /// before it calls <see cref="Finish"/>: the period test's own storage.
+    /// before it calls one of the <c>Finish</c> methods: the period test's own storage.
     /// </summary>
     internal Span<double> Window(int states) => detector.Fill(states);
 

@@ -8,14 +8,20 @@ namespace Sweeps.Core.Kernels;
 public static class BlockAnalyzers
 {
     /// <summary>
-    /// A block analyzer for one-variable maps (<see cref="MapBlockAnalyzer"/>) or fixed-step flows
-    /// (<see cref="FlowBlockAnalyzer"/>); null where only the scalar analyzers apply.
+    /// A block analyzer for one-variable maps (<see cref="MapBlockAnalyzer"/>), maps of several variables
+    /// (<see cref="MapLaneAnalyzer"/>) or fixed-step flows (<see cref="FlowBlockAnalyzer"/>); null where only the
+    /// scalar analyzers apply.
     /// </summary>
     public static IBlockAnalyzer? Create(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings? section)
     {
         if (MapBlockAnalyzer.Supports(model, settings))
         {
             return new MapBlockAnalyzer(model, settings);
+        }
+
+        if (MapLaneAnalyzer.Supports(model, settings))
+        {
+            return new MapLaneAnalyzer(model, settings);
         }
 
         return FlowBlockAnalyzer.Supports(model, integrator) ? new FlowBlockAnalyzer(model, settings, integrator, section ?? new SectionSettings()) : null;

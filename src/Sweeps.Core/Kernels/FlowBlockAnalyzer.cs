@@ -354,51 +354,16 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>
-    /// The QR step on all lanes at once: modified Gram–Schmidt with the operations of <see cref="Orthonormalizer"/>
-    /// in its order, lane-wise, so each lane gets the scalar bits. A lane where a norm is zero (a superstable
-    /// direction) or not finite is done again from its saved vectors by the scalar code, which handles both.
+    /// The QR step on all lanes at once (<see cref="LaneOrthonormalizer"/>), so each lane gets the scalar bits. A lane
+    /// where a norm is zero (a superstable direction) or not finite is done again from its saved vectors by the scalar
+    /// code, which handles both.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Orthonormalize(double t)
     {
         var tangents = n * vectors;
         System.Array.Copy(y, n, saved, 0, tangents);
-        var unusual = 0;
-        for (var c = 0; c < vectors; c++)
-        {
-            var column = n + (c * n);
-            for (var previous = 0; previous < c; previous++)
-            {
-                var basis = n + (previous * n);
-                var dot = Vector256<double>.Zero;
-                for (var i = 0; i < n; i++)
-                {
-                    dot += y[basis + i] * y[column + i];
-                }
-
-                for (var i = 0; i < n; i++)
-                {
-                    y[column + i] -= dot * y[basis + i];
-                }
-            }
-
-            var square = Vector256<double>.Zero;
-            for (var i = 0; i < n; i++)
-            {
-                square += y[column + i] * y[column + i];
-            }
-
-            var norm = Vector256.Sqrt(square);
-            var ordinary = Vector256.Equals(norm - norm, Vector256<double>.Zero) & ~Vector256.Equals(norm, Vector256<double>.Zero);
-            unusual |= (int)~ordinary.ExtractMostSignificantBits() & 0xF;
-            norms[c] = norm;
-            var inverse = Vector256<double>.One / norm;
-            for (var i = 0; i < n; i++)
-            {
-                y[column + i] *= inverse;
-            }
-        }
-
+        var unusual = LaneOrthonormalizer.Orthonormalize(y, n, n, vectors, norms);
         for (var j = 0; j < Width; j++)
         {
             if (!Live(j))
