@@ -138,7 +138,7 @@ public static class ChunkRunner
     }
 
     /// <summary>
-    /// One-variable maps (32 points at a time) and fixed-step flows (4 at a time) through a generated block kernel,
+    /// One-variable maps (32 points at a time), maps of several variables and fixed-step flows (4 at a time) through a generated block kernel,
     /// which gives the scalar analyzer's results bit for bit. A block whose analysis throws is redone point by point.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
