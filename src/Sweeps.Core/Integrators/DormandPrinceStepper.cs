@@ -29,7 +29,16 @@ public sealed class DormandPrinceStepper : Stepper
 
     private readonly IntegratorSettings settings;
     private readonly DormandPrinceStages? generated;
-    private readonly double[] k1, k2, k3, k4, k5, k6, k7, stage, next;
+    private readonly double[] k2, k3, k4, k5, k6, stage, next;
+
+    // The slopes at the start (k1) and the end (k7) of a step. On acceptance they trade places instead of being copied
+    // (first same as last): k1 then holds the new step's start slope, k7 the last step's until the next trial.
+    private double[] k1, k7;
+
+    // The dense output of the last accepted step is prepared only when asked for: forced flows sample at step ends
+    // and autonomous ones interpolate only around a section crossing.
+    private double denseStep;
+    private bool densePending;
     private readonly double[] r1, r2, r3, r4, r5;
     private double step;
     private bool slopeKnown;
@@ -56,6 +65,7 @@ public sealed class DormandPrinceStepper : Stepper
     {
         step = settings.Step;
         slopeKnown = false;
+        densePending = false;
         Accepted = 0;
         Rejected = 0;
     }
@@ -64,6 +74,7 @@ public sealed class DormandPrinceStepper : Stepper
     public override bool Advance(double[] y, ref double t, double limit)
     {
         var n = y.Length;
+        densePending = false;
         if (!slopeKnown)
         {
             System.Derivative(t, y, k1);
@@ -101,9 +112,9 @@ public sealed class DormandPrinceStepper : Stepper
                 StartTime = t;
                 t = h == limit - t ? limit : t + h;
                 EndTime = t;
-                PrepareDenseOutput(y, h);
+                (denseStep, densePending) = (h, true);
                 Array.Copy(next, y, n);
-                Array.Copy(k7, k1, n);
+                (k1, k7) = (k7, k1);
                 Accepted++;
                 var grow = error == 0 ? 5.0 : Math.Min(5.0, 0.9 * Math.Pow(error, -0.2));
                 step = Math.Min(settings.MaxStep, h * grow);
@@ -117,6 +128,12 @@ public sealed class DormandPrinceStepper : Stepper
 
     public override void Interpolate(double theta, double[] output, int count)
     {
+        if (densePending)
+        {
+            PrepareDenseOutput(denseStep);
+            densePending = false;
+        }
+
         var rest = 1 - theta;
         for (var i = 0; i < count; i++)
         {
@@ -192,17 +209,19 @@ public sealed class DormandPrinceStepper : Stepper
         return worst;
     }
 
-    private void PrepareDenseOutput(double[] y, double h)
+    /// <summary>The continuous extension of the last accepted step: its start state, end state and stages, with the start and end slopes traded places.</summary>
+    private void PrepareDenseOutput(double h)
     {
+        var (y, startSlope, endSlope) = (Start, k7, k1);
         for (var i = 0; i < y.Length; i++)
         {
             var difference = next[i] - y[i];
-            var b = (h * k1[i]) - difference;
+            var b = (h * startSlope[i]) - difference;
             r1[i] = y[i];
             r2[i] = difference;
             r3[i] = b;
-            r4[i] = difference - (h * k7[i]) - b;
-            r5[i] = h * ((D1 * k1[i]) + (D3 * k3[i]) + (D4 * k4[i]) + (D5 * k5[i]) + (D6 * k6[i]) + (D7 * k7[i]));
+            r4[i] = difference - (h * endSlope[i]) - b;
+            r5[i] = h * ((D1 * startSlope[i]) + (D3 * k3[i]) + (D4 * k4[i]) + (D5 * k5[i]) + (D6 * k6[i]) + (D7 * endSlope[i]));
         }
     }
 }
