@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Runtime.InteropServices;
 using System.Text.Json.Nodes;
 
 namespace Sweeps.Engine.Runs;
@@ -20,18 +21,31 @@ internal sealed record PartTally(
 {
     public const string Key = "sweeps.tally";
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public static PartTally Of(ChunkColumns columns)
     {
-        var regimes = new SortedDictionary<string, long>(StringComparer.Ordinal);
-        var periods = new SortedDictionary<int, long>();
+        // Counted in hash maps (one lookup per row; a sorted map per row cost a part as much as its numeric columns), sorted once.
+        var regimeCounts = new Dictionary<string, long>(StringComparer.Ordinal);
+        var periodCounts = new Dictionary<int, long>();
         var (min, max) = (double.PositiveInfinity, double.NegativeInfinity);
         var multistable = 0L;
+        string? previous = null;
+        var unused = 0L;
+        ref var regimeCount = ref unused;
         for (var row = 0; row < columns.Count; row++)
         {
-            regimes[columns.Regime[row]] = regimes.GetValueOrDefault(columns.Regime[row]) + 1;
+            // Rows hold a handful of distinct (shared) regime strings: look the count up only when the string changes.
+            var regime = columns.Regime[row];
+            if (!ReferenceEquals(regime, previous))
+            {
+                regimeCount = ref CollectionsMarshal.GetValueRefOrAddDefault(regimeCounts, regime, out _);
+                previous = regime;
+            }
+
+            regimeCount++;
             if (columns.Period[row] > 0)
             {
-                periods[columns.Period[row]] = periods.GetValueOrDefault(columns.Period[row]) + 1;
+                CollectionsMarshal.GetValueRefOrAddDefault(periodCounts, columns.Period[row], out _)++;
             }
 
             var exponent = columns.Lyapunov.Length > 0 ? columns.Lyapunov[0][row] : double.NaN;
@@ -44,6 +58,8 @@ internal sealed record PartTally(
         }
 
         long? hysteresis = columns.Backward is null ? null : columns.Hysteresis.Take(columns.Count).LongCount(h => h);
+        var regimes = new SortedDictionary<string, long>(regimeCounts, StringComparer.Ordinal);
+        var periods = new SortedDictionary<int, long>(periodCounts);
         return new PartTally(regimes, periods, min, max, multistable, hysteresis, columns.Count);
     }
 
