@@ -11,14 +11,16 @@ internal static class CheckCommand
     public static Command Create(TextWriter output)
     {
         var config = new Argument<string>("CONFIG") { Description = "The sweep config (TOML)" };
-        var command = new Command("check", "Validate a config and print the grid size, chunk count and estimated cost; runs no sweep");
+        var command = new Command("check", "Validate a config and print the grid size, chunk count, estimated cost and disk space; runs no sweep");
         command.Arguments.Add(config);
         command.SetAction(parse =>
         {
             var spec = SpecReader.Load(parse.GetRequiredValue(config));
-            var estimate = CostEstimate.Measure(spec);
+            var model = Engine.Probing.ModelFactory.Build(spec);
+            var estimate = CostEstimate.Measure(spec, model);
             var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount);
-            CheckText.Write(spec, estimate, plan, Environment.ProcessorCount, output);
+            var disk = DiskEstimate.Measure(spec, model, plan, estimate.SecondsPerPoint);
+            CheckText.Write(spec, estimate, disk, plan, Environment.ProcessorCount, output);
             return ExitCodes.Success;
         });
         return command;

@@ -56,7 +56,7 @@ public static class ChunkRunner
         }
 
         var fresh = new ChunkColumns(points.Length, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
-        var (columns, attractors) = ComputePoints(context, spec, fresh, points.Length, i => points[i], null, token);
+        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, fresh, points.Length, i => points[i], null, token);
         if (context.WritesAttractors)
         {
             await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
@@ -76,19 +76,50 @@ public static class ChunkRunner
         var first = chunk * manifest.ChunkSize;
         var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
         var count = (int)(last - first);
-        return ComputePoints(context, context.Spec, context.RentColumns(count), count, i => first + i, progress, token);
+        return ComputePoints(context.Model, context.WritesAttractors, context.Spec, context.RentColumns(count), count, i => first + i, progress, token);
+    }
+
+    /// <summary>
+    /// The rows a run of <paramref name="spec"/> writes for the listed points, for size estimates. In a continuation
+    /// sweep each point is analysed alone and its backward branch is a copy of the forward one: the same columns and
+    /// sizes as a real line, not its values.
+    /// </summary>
+    internal static (ChunkColumns Points, AttractorColumns Attractors) ComputeSample(Specs.SweepSpec spec, Core.Models.Model model, IReadOnlyList<long> points)
+    {
+        var dimension = spec.Model.Variables.Count;
+        var follow = spec.Grid.Follow is not null;
+        var columns = new ChunkColumns(points.Count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: follow, samples: spec.Analysis.Samples);
+        var writesAttractors = spec.StartCount > 1 || follow;
+        if (!follow)
+        {
+            return ComputePoints(model, writesAttractors, spec, columns, points.Count, i => points[i], null, CancellationToken.None);
+        }
+
+        var analyzer = Probing.AnalyzerFactory.Create(spec, model);
+        var attractors = new AttractorColumns(dimension);
+        var source = new Specs.PointSource(spec);
+        foreach (var point in points)
+        {
+            source.Fill(point);
+            var result = Analyze(analyzer, source.Initial, source.Parameters);
+            columns.Add(point, source.AxisValues, result);
+            columns.AddBackward(result, hysteresis: false);
+            attractors.Add(point, AttractorGrouping.Single(result, spec.Analysis)[0]);
+        }
+
+        return (columns, attractors);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
-        RunContext context, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        Core.Models.Model model, bool writesAttractors, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
-        if (Probing.AnalyzerFactory.CreateBlock(spec, context.Model) is { } block)
+        if (Probing.AnalyzerFactory.CreateBlock(spec, model) is { } block)
         {
             return ComputeBlocks(block, spec, columns, count, pointAt, progress, token);
         }
 
-        var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
+        var analyzer = Probing.AnalyzerFactory.Create(spec, model);
         var dimension = spec.Model.Variables.Count;
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
@@ -104,7 +135,7 @@ public static class ChunkRunner
                 // One start, one outcome: its attractor row (and signature) only where attractor parts are written.
                 var result = Analyze(analyzer, source.Initial, source.Parameters);
                 columns.Add(point, source.AxisValues, result);
-                if (context.WritesAttractors)
+                if (writesAttractors)
                 {
                     attractors.Add(point, AttractorGrouping.Single(result, spec.Analysis)[0]);
                 }
