@@ -7,10 +7,11 @@ namespace Sweeps.Core.Integrators;
 
 /// <summary>
 /// The six new stages of one Dormand–Prince trial step from (t, y) with step h and first slope k1: writes the
-/// slopes k2 … k7 and the fifth-order solution <paramref name="next"/> (k7 is the slope there).
+/// slopes k2 … k7 and the fifth-order solution <paramref name="next"/> (k7 is the slope there), and returns the
+/// step's error norm max_i |err_i| / (atol + rtol·max(|y_i|, |next_i|)) — NaN when a value is not finite.
 /// </summary>
-internal delegate void DormandPrinceStages(
-    double[] y, double[] p, double t, double h, double[] k1, double[] k2, double[] k3, double[] k4, double[] k5, double[] k6, double[] k7, double[] next);
+internal delegate double DormandPrinceStages(
+    double[] y, double[] p, double t, double h, double[] k1, double[] k2, double[] k3, double[] k4, double[] k5, double[] k6, double[] k7, double[] next, double atol, double rtol);
 
 /// <summary>
 /// Generates <see cref="DormandPrinceStages"/> for a model: the stage loops of <see cref="DormandPrinceStepper"/>
@@ -46,6 +47,7 @@ internal static class DormandPrinceKernel
         var y = Load("y");
         var k = new List<ParameterExpression[]> { Load("k1") };
         var stage = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
+        var fifth = stage;
 
         // Stage s is evaluated at t + c_s·h on y + h·Σ a_sj k_j; rows as in the stepper, zero coefficients left out.
         (double C, double[] A)[] rows =
@@ -76,6 +78,7 @@ internal static class DormandPrinceKernel
             k.Add(slope);
             if (last)
             {
+                fifth = target;
                 for (var i = 0; i < size; i++)
                 {
                     body.Add(LinqExpression.Assign(Element("next", i), target[i]));
@@ -91,8 +94,24 @@ internal static class DormandPrinceKernel
             }
         }
 
-        body.Add(LinqExpression.Empty());
-        var parameters = new[] { arrays["y"], arrays["p"], t, h, arrays["k1"], arrays["k2"], arrays["k3"], arrays["k4"], arrays["k5"], arrays["k6"], arrays["k7"], arrays["next"] };
+        // The error norm from the stages still in locals, as the stepper's loop computes it: Math.Max carries a NaN
+        // through to the result, where the loop returns it at once — the same NaN either way.
+        var (atol, rtol) = (LinqExpression.Parameter(typeof(double), "atol"), LinqExpression.Parameter(typeof(double), "rtol"));
+        var abs = typeof(Math).GetMethod(nameof(Math.Abs), [typeof(double)])!;
+        var max = typeof(Math).GetMethod(nameof(Math.Max), [typeof(double), typeof(double)])!;
+        var worst = code.Local();
+        body.Add(LinqExpression.Assign(worst, LinqExpression.Constant(0.0)));
+        double[] weights = [E1, 0, E3, E4, E5, E6, E7];
+        for (var i = 0; i < size; i++)
+        {
+            var estimate = LinqExpression.Multiply(h, Sum(weights, k, i));
+            var scale = LinqExpression.Add(atol, LinqExpression.Multiply(rtol, LinqExpression.Call(max, LinqExpression.Call(abs, y[i]), LinqExpression.Call(abs, fifth[i]))));
+            var ratio = LinqExpression.Divide(LinqExpression.Call(abs, estimate), scale);
+            body.Add(LinqExpression.Assign(worst, LinqExpression.Call(max, worst, ratio)));
+        }
+
+        body.Add(worst);
+        var parameters = new[] { arrays["y"], arrays["p"], t, h, arrays["k1"], arrays["k2"], arrays["k3"], arrays["k4"], arrays["k5"], arrays["k6"], arrays["k7"], arrays["next"], atol, rtol };
         return LinqExpression.Lambda<DormandPrinceStages>(LinqExpression.Block(code.Variables, body), parameters).Compile();
     }
 

@@ -21,7 +21,7 @@ public sealed class DormandPrinceStepper : Stepper
     internal const double A71 = 35.0 / 384, A73 = 500.0 / 1113, A74 = 125.0 / 192, A75 = -2187.0 / 6784, A76 = 11.0 / 84;
 
     // Fifth-order weights minus fourth-order weights: the local error estimate.
-    private const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 = -17253.0 / 339200, E6 = 22.0 / 525, E7 = -1.0 / 40;
+    internal const double E1 = 71.0 / 57600, E3 = -71.0 / 16695, E4 = 71.0 / 1920, E5 = -17253.0 / 339200, E6 = 22.0 / 525, E7 = -1.0 / 40;
 
     // Continuous extension.
     private const double D1 = -12715105075.0 / 11282082432, D3 = 87487479700.0 / 32700410799, D4 = -10690763975.0 / 1880347072;
@@ -96,8 +96,7 @@ public sealed class DormandPrinceStepper : Stepper
                 return false;
             }
 
-            Stages(y, t, h);
-            var error = ErrorNorm(y, h);
+            var error = Trial(y, t, h);
             if (!double.IsFinite(error))
             {
                 // Treat a non-finite trial like a failed one: shrink hard and try again.
@@ -141,14 +140,21 @@ public sealed class DormandPrinceStepper : Stepper
         }
     }
 
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Stages(double[] y, double t, double h)
+    /// <summary>One trial step: the stages, then the error norm (both generated in one delegate when the system is).</summary>
+    private double Trial(double[] y, double t, double h)
     {
         if (generated is not null)
         {
-            generated(y, System.Parameters, t, h, k1, k2, k3, k4, k5, k6, k7, next);
-            return;
+            return generated(y, System.Parameters, t, h, k1, k2, k3, k4, k5, k6, k7, next, settings.AbsoluteTolerance, settings.RelativeTolerance);
         }
+
+        Stages(y, t, h);
+        return ErrorNorm(y, h);
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Stages(double[] y, double t, double h)
+    {
 
         var n = y.Length;
         for (var i = 0; i < n; i++)
