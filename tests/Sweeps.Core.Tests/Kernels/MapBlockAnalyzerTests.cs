@@ -36,26 +36,8 @@ public sealed class MapBlockAnalyzerTests
         })
         {
             var block = new MapBlockAnalyzer(model, settings);
-            var reference = new MapAnalyzer(model, settings);
             const int points = 77;
-            var initial = new double[MapBlockAnalyzer.BlockSize][];
-            var parameters = new double[MapBlockAnalyzer.BlockSize][];
-            var results = new PointResult[MapBlockAnalyzer.BlockSize];
-            for (var first = 0; first < points; first += MapBlockAnalyzer.BlockSize)
-            {
-                var count = Math.Min(MapBlockAnalyzer.BlockSize, points - first);
-                for (var i = 0; i < count; i++)
-                {
-                    initial[i] = [start];
-                    parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
-                }
-
-                block.Analyze(initial, parameters, count, results);
-                for (var i = 0; i < count; i++)
-                {
-                    SameResult.Check(reference.Analyze(initial[i], parameters[i]), results[i], $"{name}, r = {parameters[i][0]:R}, {settings}");
-                }
-            }
+            SameResult.CheckEveryPoint(block, new MapAnalyzer(model, settings), points, [start], from, to, $"{name}, {settings}");
 
             // Not a comparison of the scalar path with itself: most points went through the kernel.
             Assert.True(block.Rechecked < points / 2, $"{name}: {block.Rechecked} of {points} points were handed to the scalar path");

@@ -35,26 +35,8 @@ public sealed class MapLaneAnalyzerTests
         })
         {
             var lanes = new MapLaneAnalyzer(model, settings);
-            var reference = new MapAnalyzer(model, settings);
             const int points = 23;
-            var initial = new double[MapLaneAnalyzer.BlockSize][];
-            var parameters = new double[MapLaneAnalyzer.BlockSize][];
-            var results = new PointResult[MapLaneAnalyzer.BlockSize];
-            for (var first = 0; first < points; first += MapLaneAnalyzer.BlockSize)
-            {
-                var count = Math.Min(MapLaneAnalyzer.BlockSize, points - first);
-                for (var i = 0; i < count; i++)
-                {
-                    initial[i] = start.ToArray();
-                    parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
-                }
-
-                lanes.Analyze(initial, parameters, count, results);
-                for (var i = 0; i < count; i++)
-                {
-                    SameResult.Check(reference.Analyze(initial[i], parameters[i]), results[i], $"{name}, r = {parameters[i][0]:R}, {settings}");
-                }
-            }
+            SameResult.CheckEveryPoint(lanes, new MapAnalyzer(model, settings), points, start, from, to, $"{name}, {settings}");
 
             if (name != "collapsing direction" || settings.Lyapunov == LyapunovMode.None)
             {

@@ -1,4 +1,5 @@
 using Sweeps.Core.Analysis;
+using Sweeps.Core.Kernels;
 
 namespace Sweeps.Core.Tests.Kernels;
 
@@ -19,6 +20,32 @@ internal static class SameResult
         Assert.True(Bits([expected.PeriodTime]) == Bits([actual.PeriodTime]), $"{where}: period time");
         Assert.True(Bits(Values(expected.Indicators)) == Bits(Values(actual.Indicators)), $"{where}: indicators");
         Assert.Equal(expected.DivergedAt, actual.DivergedAt);
+    }
+
+    /// <summary>
+    /// Runs <paramref name="points"/> points through <paramref name="block"/> a block at a time and checks each against
+    /// <paramref name="reference"/>: point k starts at <paramref name="start"/> with the one parameter r swept from
+    /// <paramref name="from"/> to <paramref name="to"/>.
+    /// </summary>
+    public static void CheckEveryPoint(IBlockAnalyzer block, IPointAnalyzer reference, int points, double[] start, double from, double to, string where)
+    {
+        var size = block.BlockSize;
+        var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
+        for (var first = 0; first < points; first += size)
+        {
+            var count = Math.Min(size, points - first);
+            for (var i = 0; i < count; i++)
+            {
+                initial[i] = start.ToArray();
+                parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
+            }
+
+            block.Analyze(initial, parameters, count, results);
+            for (var i = 0; i < count; i++)
+            {
+                Check(reference.Analyze(initial[i], parameters[i]), results[i], $"{where}, r = {parameters[i][0]:R}");
+            }
+        }
     }
 
     private static double[] Values(Core.Indicators.IndicatorValues? indicators) =>
