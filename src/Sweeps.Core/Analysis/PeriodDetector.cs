@@ -1,4 +1,6 @@
 using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using System.Runtime.Intrinsics;
 
 namespace Sweeps.Core.Analysis;
 
@@ -174,7 +176,25 @@ internal sealed class PeriodDetector
     private bool Repeats(int p, double limit)
     {
         var values = ordered;
-        for (var i = (count * n) - 1; i >= p * n; i--)
+        var shift = p * n;
+        var i = (count * n) - 1;
+
+        // Four comparisons at a time from the end (a cycle's window is compared whole): each lane is the scalar test
+        // below, so the answer is the same; a NaN fails it either way.
+        ref var start = ref MemoryMarshal.GetArrayDataReference(values);
+        var bound = Vector256.Create(limit);
+        for (; i - 3 >= shift; i -= 4)
+        {
+            var a = Vector256.LoadUnsafe(ref start, (nuint)(i - 3));
+            var b = Vector256.LoadUnsafe(ref start, (nuint)(i - 3 - shift));
+            var close = Vector256.LessThanOrEqual(Vector256.Abs(a - b), bound * (Vector256<double>.One + Vector256.Max(Vector256.Abs(a), Vector256.Abs(b))));
+            if (close.ExtractMostSignificantBits() != 0xF)
+            {
+                return false;
+            }
+        }
+
+        for (; i >= shift; i--)
         {
             var (a, b) = (values[i], values[i - (p * n)]);
             if (!(Math.Abs(a - b) <= limit * (1.0 + Math.Max(Math.Abs(a), Math.Abs(b)))))
