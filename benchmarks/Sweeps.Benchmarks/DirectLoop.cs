@@ -26,7 +26,8 @@ internal static class DirectLoop
             var sum = 0.0;
             static double Check(PointResult result) =>
                 result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
-            if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
+            // Lean results, as chunks of single-start sweeps compute them.
+            if (AnalyzerFactory.CreateBlock(spec, model, lean: true) is { } block)
             {
                 // The block kernel, as chunks use it.
                 var size = block.BlockSize;
@@ -46,7 +47,7 @@ internal static class DirectLoop
             }
             else
             {
-                var analyzer = AnalyzerFactory.Create(spec, model);
+                var analyzer = AnalyzerFactory.Create(spec, model, lean: true);
                 for (var point = first; point < last; point++)
                 {
                     source.Fill(point);

@@ -22,6 +22,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] jacobian;
     private readonly double[] scratch;
     private readonly double[] cycleProduct;
+    private readonly double[] cyclePoint;
     private readonly double[] cycleScratch;
     private double[] tangent;
     private double[] product;
@@ -69,6 +70,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
         jacobian = new double[n * n];
         scratch = new double[n * n];
         cycleProduct = new double[n * n];
+        cyclePoint = new double[n];
         cycleScratch = new double[n * n];
         tangent = new double[n * vectors];
         product = new double[n * vectors];
@@ -89,6 +91,13 @@ public sealed class MapAnalyzer : IPointAnalyzer
     public Model Model => model;
 
     public AnalysisSettings Settings => settings;
+
+    /// <summary>
+    /// Results for part files only: no cycle states and no window box (<see cref="PointResult.Cycle"/> empty,
+    /// <see cref="PointResult.Box"/> null), which a run stores nowhere unless it groups attractors. Everything else —
+    /// regime, period, multiplier, exponents, samples — is the same, bit for bit.
+    /// </summary>
+    public bool Lean { get; init; }
 
     /// <summary>Analyses the orbit of <paramref name="initial"/> under parameters <paramref name="parameters"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -199,13 +208,13 @@ public sealed class MapAnalyzer : IPointAnalyzer
         var (exponents, errors) = Exponents();
         var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
         var period = detector.FindPeriod();
-        var cycle = new List<double[]>(period);
-        for (var i = detector.Count - period; period > 0 && i < detector.Count; i++)
+        double[][] cycle = period == 0 || Lean ? [] : new double[period][];
+        for (var i = 0; i < cycle.Length; i++)
         {
-            cycle.Add(detector.State(i).ToArray());
+            cycle[i] = detector.State(detector.Count - period + i).ToArray();
         }
 
-        var multiplier = period > 0 ? CycleMultiplier(cycle, parameters) : double.NaN;
+        var multiplier = period > 0 ? CycleMultiplier(period, parameters) : double.NaN;
         var verdict = MapClassifier.Decide(period, multiplier, exponents, errors, settings);
         var indicators = series.Length > 0 ? Core.Indicators.IndicatorValues.Of(series) : null;
         if (indicators?.Disagreement(verdict.Regime) is { } disagreement)
@@ -225,7 +234,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
             verdict.Reason,
             detector.Last(settings.Samples),
             Indicators: indicators,
-            Box: verdict.Regime is Regime.FixedPoint or Regime.Periodic ? StateBox.Of(cycle) : detector.Bounds(x));
+            Box: Lean ? null : verdict.Regime is Regime.FixedPoint or Regime.Periodic ? StateBox.Of(cycle) : detector.Bounds(x));
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -245,9 +254,9 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return (exponents, errors);
     }
 
-    /// <summary>Spectral radius of the product of Jacobians around the cycle (its Floquet multiplier).</summary>
+    /// <summary>Spectral radius of the product of Jacobians around the cycle of the last <paramref name="period"/> recorded states (its Floquet multiplier).</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private double CycleMultiplier(List<double[]> cycle, double[] parameters)
+    private double CycleMultiplier(int period, double[] parameters)
     {
         var (monodromy, next) = (cycleProduct, cycleScratch);
         Array.Clear(monodromy);
@@ -256,9 +265,10 @@ public sealed class MapAnalyzer : IPointAnalyzer
             monodromy[(i * n) + i] = 1.0;
         }
 
-        foreach (var point in cycle)
+        for (var i = detector.Count - period; i < detector.Count; i++)
         {
-            model.EvaluateJacobian(point, parameters, 0, jacobian);
+            detector.State(i).CopyTo(cyclePoint);
+            model.EvaluateJacobian(cyclePoint, parameters, 0, jacobian);
             SmallMatrix.Multiply(jacobian, monodromy, next, n);
             (monodromy, next) = (next, monodromy);
         }

@@ -12,16 +12,21 @@ public static class BlockAnalyzers
     /// (<see cref="MapLaneAnalyzer"/>) or fixed-step flows (<see cref="FlowBlockAnalyzer"/>); null where only the
     /// scalar analyzers apply.
     /// </summary>
-    public static IBlockAnalyzer? Create(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings? section)
+    /// <param name="model">The model.</param>
+    /// <param name="settings">The analysis settings.</param>
+    /// <param name="integrator">The integrator (flows).</param>
+    /// <param name="section">The section (flows).</param>
+    /// <param name="lean">Map results without cycle states and window box (<see cref="MapAnalyzer.Lean"/>).</param>
+    public static IBlockAnalyzer? Create(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings? section, bool lean = false)
     {
         if (MapBlockAnalyzer.Supports(model, settings))
         {
-            return new MapBlockAnalyzer(model, settings);
+            return new MapBlockAnalyzer(model, settings, lean);
         }
 
         if (MapLaneAnalyzer.Supports(model, settings))
         {
-            return new MapLaneAnalyzer(model, settings);
+            return new MapLaneAnalyzer(model, settings, lean);
         }
 
         return FlowBlockAnalyzer.Supports(model, integrator) ? new FlowBlockAnalyzer(model, settings, integrator, section ?? new SectionSettings()) : null;

@@ -32,7 +32,10 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     private readonly Vector256<double>[] halfMantissas = new Vector256<double>[Groups];
     private readonly double[] window;
 
-    public MapBlockAnalyzer(Model model, AnalysisSettings settings)
+    /// <param name="model">A one-variable map.</param>
+    /// <param name="settings">The analysis settings.</param>
+    /// <param name="lean">Results without cycle states and window box (<see cref="MapAnalyzer.Lean"/>).</param>
+    public MapBlockAnalyzer(Model model, AnalysisSettings settings, bool lean = false)
     {
         if (!Supports(model, settings))
         {
@@ -40,7 +43,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
 
         this.settings = settings;
-        scalar = new MapAnalyzer(model, settings);
+        scalar = new MapAnalyzer(model, settings) { Lean = lean };
         kernel = MapKernel.For(model, settings.Escape, MapAnalyzer.SafeLow, MapAnalyzer.SafeHigh);
         parameterCount = model.Source.Parameters.Count;
         measuresGrowth = settings.Lyapunov != LyapunovMode.None;

@@ -48,7 +48,10 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     private readonly double[] laneJacobian;
     private int flagged;
 
-    public MapLaneAnalyzer(Model model, AnalysisSettings settings)
+    /// <param name="model">A map of two or more variables.</param>
+    /// <param name="settings">The analysis settings.</param>
+    /// <param name="lean">Results without cycle states and window box (<see cref="MapAnalyzer.Lean"/>).</param>
+    public MapLaneAnalyzer(Model model, AnalysisSettings settings, bool lean = false)
     {
         if (!Supports(model, settings))
         {
@@ -56,7 +59,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
         }
 
         this.settings = settings;
-        scalar = new MapAnalyzer(model, settings);
+        scalar = new MapAnalyzer(model, settings) { Lean = lean };
         n = model.Dimension;
         vectors = settings.Lyapunov switch
         {

@@ -114,12 +114,13 @@ public static class ChunkRunner
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
         Core.Models.Model model, bool writesAttractors, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
     {
-        if (Probing.AnalyzerFactory.CreateBlock(spec, model) is { } block)
+        // Parts store no cycle states or boxes: only attractor rows need them.
+        if (Probing.AnalyzerFactory.CreateBlock(spec, model, lean: !writesAttractors) is { } block)
         {
             return ComputeBlocks(block, spec, columns, count, pointAt, progress, token);
         }
 
-        var analyzer = Probing.AnalyzerFactory.Create(spec, model);
+        var analyzer = Probing.AnalyzerFactory.Create(spec, model, lean: !writesAttractors);
         var dimension = spec.Model.Variables.Count;
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);

@@ -22,12 +22,13 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     /// </summary>
     public static CostEstimate Measure(SweepSpec spec, Core.Models.Model model, bool quick = false, int samples = 12)
     {
-        if (AnalyzerFactory.CreateBlock(spec, model) is { } block)
+        var lean = spec.StartCount == 1 && spec.Grid.Follow is null;
+        if (AnalyzerFactory.CreateBlock(spec, model, lean) is { } block)
         {
             return MeasureBlocks(spec, block, quick);
         }
 
-        var analyzer = AnalyzerFactory.Create(spec, model);
+        var analyzer = AnalyzerFactory.Create(spec, model, lean);
         var points = spec.Grid.PointCount;
         var count = (int)Math.Min(samples, points);
         var source = new PointSource(spec);

@@ -9,12 +9,16 @@ namespace Sweeps.Engine.Probing;
 /// <summary>The right analyzer for a spec's model: maps iterate, flows integrate.</summary>
 public static class AnalyzerFactory
 {
-    public static IPointAnalyzer Create(SweepSpec spec, Model model)
+    /// <summary>
+    /// The analyzer for one point. <paramref name="lean"/>: map results without cycle states and window box
+    /// (<see cref="MapAnalyzer.Lean"/>) — for chunks whose parts store neither.
+    /// </summary>
+    public static IPointAnalyzer Create(SweepSpec spec, Model model, bool lean = false)
     {
-        var analyzer = Create(spec, model, spec.Analysis, spec.Integrator);
+        var analyzer = Create(spec, model, spec.Analysis, spec.Integrator, lean);
         if (spec.Analysis.TransientCheck)
         {
-            var longer = Create(spec, model, spec.Analysis with { Transient = 2 * spec.Analysis.Transient }, spec.Integrator);
+            var longer = Create(spec, model, spec.Analysis with { Transient = 2 * spec.Analysis.Transient }, spec.Integrator, lean);
             analyzer = new CrossCheckedAnalyzer(analyzer, longer, "transient", "twice the transient");
         }
 
@@ -27,7 +31,7 @@ public static class AnalyzerFactory
                 RelativeTolerance = spec.Integrator.RelativeTolerance / 100,
                 AbsoluteTolerance = spec.Integrator.AbsoluteTolerance / 100,
             };
-            analyzer = new CrossCheckedAnalyzer(analyzer, Create(spec, model, spec.Analysis, finer), "step", "half the step");
+            analyzer = new CrossCheckedAnalyzer(analyzer, Create(spec, model, spec.Analysis, finer, lean), "step", "half the step");
         }
 
         return analyzer;
@@ -37,12 +41,12 @@ public static class AnalyzerFactory
     /// The block analyzer for a spec's model, where one applies: one start per point, no cross-checks (they
     /// compare two scalar analyses) and no continuation (each point starts from the previous one's end).
     /// </summary>
-    public static IBlockAnalyzer? CreateBlock(SweepSpec spec, Model model) =>
+    public static IBlockAnalyzer? CreateBlock(SweepSpec spec, Model model, bool lean = false) =>
         spec.Starts is null && !spec.Analysis.TransientCheck && !spec.Analysis.StepCheck && spec.Grid.Follow is null
-            ? BlockAnalyzers.Create(model, spec.Analysis, spec.Integrator, spec.Section)
+            ? BlockAnalyzers.Create(model, spec.Analysis, spec.Integrator, spec.Section, lean)
             : null;
 
-    private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings, IntegratorSettings integrator) => model.Kind == ModelKind.Map
-        ? new MapAnalyzer(model, settings)
+    private static IPointAnalyzer Create(SweepSpec spec, Model model, AnalysisSettings settings, IntegratorSettings integrator, bool lean) => model.Kind == ModelKind.Map
+        ? new MapAnalyzer(model, settings) { Lean = lean }
         : new FlowAnalyzer(model, settings, integrator, spec.Section ?? new SectionSettings());
 }
