@@ -62,23 +62,30 @@ internal sealed class MapKernel
             throw new ArgumentException("the block kernel is for one-variable maps", nameof(model));
         }
 
-        Transient = Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: false, record: false);
-        Measure = Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: true, record: false);
-        RecordPlain = Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: false, record: true);
-        RecordMeasure = Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: true, record: true);
+        // Each loop is compiled when first asked for (a few milliseconds each): without exponents the measuring
+        // loops are never needed, with them the plain recording loop is not.
+        transient = new(() => Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: false, record: false));
+        measure = new(() => Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: true, record: false));
+        recordPlain = new(() => Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: false, record: true));
+        recordMeasure = new(() => Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: true, record: true));
     }
 
+    private readonly Lazy<BlockSteps> transient;
+    private readonly Lazy<BlockSteps> measure;
+    private readonly Lazy<RecordingSteps> recordPlain;
+    private readonly Lazy<RecordingSteps> recordMeasure;
+
     /// <summary><see cref="Transient"/>, recording each state.</summary>
-    public RecordingSteps RecordPlain { get; }
+    public RecordingSteps RecordPlain => recordPlain.Value;
 
     /// <summary><see cref="Measure"/>, recording each state.</summary>
-    public RecordingSteps RecordMeasure { get; }
+    public RecordingSteps RecordMeasure => recordMeasure.Value;
 
     /// <summary>x ← f(x), flagging lanes that leave ±escape.</summary>
-    public BlockSteps Transient { get; }
+    public BlockSteps Transient => transient.Value;
 
     /// <summary>product ← product·|f'(x)|, then x ← f(x); flags lanes whose product leaves the safe range or whose x escapes.</summary>
-    public BlockSteps Measure { get; }
+    public BlockSteps Measure => measure.Value;
 
     private static TDelegate Build<TDelegate>(Model model, double escape, double safeLow, double safeHigh, bool derivative, bool record)
     {
