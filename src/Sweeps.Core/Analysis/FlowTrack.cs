@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Runtime.CompilerServices;
 using Sweeps.Core.Integrators;
 using Sweeps.Core.Models;
 
@@ -75,6 +76,7 @@ internal sealed class FlowTrack
     }
 
     /// <summary>Stores a section point or stroboscopic sample (its first n values) taken at <paramref name="time"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Record(double[] point, double time)
     {
         detector.Push(point.AsSpan(0, n));
@@ -99,6 +101,7 @@ internal sealed class FlowTrack
     }
 
     /// <summary>Adds the logarithms of the norms |R_cc| of one re-orthonormalisation.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void AddNorms(ReadOnlySpan<double> values)
     {
         for (var c = 0; c < vectors; c++)

@@ -335,6 +335,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     }
 
     /// <summary>|det J| of the current Jacobian: the 2 × 2 formula, or elimination with pivoting on a copy.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double AbsDeterminant()
     {
         if (n == 2)

@@ -161,6 +161,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         return values[point < count ? point : 0][index];
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Advance(BlockSteps steps, long count)
     {
         while (count > 0)

@@ -125,6 +125,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Lanes beyond the block's points repeat its first point (their results are not used).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Load(double[][] initial, double[][] parameters, int count)
     {
         for (var i = 0; i < n; i++)
@@ -269,6 +270,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
         detProduct = Split(detProduct, ref detExponent);
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static Vector256<double> Split(Vector256<double> value, ref Vector256<long> exponent)
     {
         var bits = value.AsInt64();
@@ -277,6 +279,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Lanes (bits 0–3) with a component beyond ±escape or not finite.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private int Escaped(Vector256<double>[] state)
     {
         var escape = Vector256.Create(settings.Escape);
@@ -290,6 +293,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Lanes whose running product left (<see cref="MapAnalyzer.SafeLow"/>, <see cref="MapAnalyzer.SafeHigh"/>), where the scalar code takes a logarithm early.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static int OutsideSafeRange(Vector256<double> running)
     {
         var inside = Vector256.GreaterThan(running, Vector256.Create(MapAnalyzer.SafeLow)) & Vector256.LessThan(running, Vector256.Create(MapAnalyzer.SafeHigh));
@@ -297,6 +301,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     }
 
     /// <summary>Lane <paramref name="j"/>'s result through the scalar classification, from the lane's orbit and products.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private PointResult Finish(int j, int recorded, double[] pointParameters)
     {
         for (var i = 0; i < n; i++)
