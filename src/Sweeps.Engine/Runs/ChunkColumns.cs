@@ -89,6 +89,7 @@ internal sealed class ChunkColumns
 
     public ArrayBufferWriter<int> SampleRepetitions { get; }
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1)
     {
         var row = Count++;

@@ -27,6 +27,7 @@ public sealed class BlockSource
     public double[][] AxisValues { get; }
 
     /// <summary>Fills lanes 0 … <paramref name="lanes"/> − 1 with the points <paramref name="pointAt"/> names.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Fill(int lanes, Func<int, long> pointAt)
     {
         for (var j = 0; j < lanes; j++)

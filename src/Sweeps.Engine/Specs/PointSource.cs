@@ -30,6 +30,7 @@ public sealed class PointSource
     /// <summary>The point's coordinate on each grid axis, in axis order.</summary>
     public double[] AxisValues { get; }
 
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Fill(long point)
     {
         baseInitial.CopyTo(Initial, 0);
