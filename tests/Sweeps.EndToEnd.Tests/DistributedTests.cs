@@ -48,7 +48,9 @@ public sealed class DistributedTests(PostgresFixture postgres)
             // SIGKILL, mid-chunk: the worker is always inside a chunk while there is work.
             workers[0].Kill();
             workers[0].WaitForExit();
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3));
+            // The killed worker's chunk comes back after the invisibility timeout, and a lock it held expires after the
+            // distributed-lock timeout (30 s each); on a loaded machine the survivors' retries back off further.
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
         }
         finally
         {
@@ -122,7 +124,9 @@ public sealed class DistributedTests(PostgresFixture postgres)
         {
             WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length >= 4, TimeSpan.FromMinutes(2));
             postgres.Outage(TimeSpan.FromSeconds(3));
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3));
+            // The killed worker's chunk comes back after the invisibility timeout, and a lock it held expires after the
+            // distributed-lock timeout (30 s each); on a loaded machine the survivors' retries back off further.
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
         }
         finally
         {
@@ -195,12 +199,12 @@ public sealed class DistributedTests(PostgresFixture postgres)
         }
     }
 
-    private void WaitFor(Func<bool> condition, TimeSpan timeout)
+    private void WaitFor(Func<bool> condition, TimeSpan timeout, Func<string>? state = null)
     {
         var clock = Stopwatch.StartNew();
         while (!condition())
         {
-            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout}; the workers' last lines:\n{string.Join("\n", workerLog.TakeLast(40))}");
+            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout} ({state?.Invoke() ?? "no state"}); the workers' last lines:\n{string.Join("\n", workerLog.TakeLast(40))}");
             Thread.Sleep(50);
         }
     }
