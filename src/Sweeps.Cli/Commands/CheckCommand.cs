@@ -19,8 +19,19 @@ internal static class CheckCommand
             var model = Engine.Probing.ModelFactory.Build(spec);
             var estimate = CostEstimate.Measure(spec, model);
             var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount);
-            var disk = DiskEstimate.Measure(spec, model, plan, estimate.SecondsPerPoint);
-            CheckText.Write(spec, estimate, disk, plan, Environment.ProcessorCount, output);
+            DiskEstimate? disk = null;
+            string? diskProblem = null;
+            try
+            {
+                disk = DiskEstimate.Measure(spec, model, plan, estimate.SecondsPerPoint);
+            }
+            catch (Exception error) when (error is IOException or UnauthorizedAccessException)
+            {
+                // The sample parts go to the temporary folder; without one the rest of the report still stands.
+                diskProblem = error.Message;
+            }
+
+            CheckText.Write(spec, estimate, disk, plan, Environment.ProcessorCount, output, diskProblem);
             return ExitCodes.Success;
         });
         return command;

@@ -8,7 +8,7 @@ namespace Sweeps.Cli.Output;
 /// <summary>The report of <c>sweeps check</c>.</summary>
 internal static class CheckText
 {
-    public static void Write(SweepSpec spec, CostEstimate estimate, DiskEstimate disk, ChunkPlan plan, int cores, TextWriter output)
+    public static void Write(SweepSpec spec, CostEstimate estimate, DiskEstimate? disk, ChunkPlan plan, int cores, TextWriter output, string? diskProblem = null)
     {
         var model = spec.Model;
         output.WriteLine($"{spec.SourceFile}: valid");
@@ -34,6 +34,12 @@ internal static class CheckText
         output.WriteLine($"chunks        {plan.ChunkCount:N0} of up to {plan.ChunkSize:N0} points");
         var wall = estimate.TotalCpuSeconds / Math.Max(1, cores);
         output.WriteLine($"estimate      {Numbers.Format(estimate.SecondsPerPoint * 1e6, "g3")} µs per point (timed on {estimate.SampledPoints} points); {Duration(estimate.TotalCpuSeconds)} of compute, about {Duration(wall)} on {cores} core{(cores == 1 ? "" : "s")}");
+        if (disk is null)
+        {
+            output.WriteLine($"disk          not estimated: {diskProblem ?? "no sample written"}");
+            return;
+        }
+
         output.WriteLine($"disk          about {Size(disk.TotalBytes)} in {plan.ChunkCount:N0} part{(plan.ChunkCount == 1 ? "" : "s")} ({Numbers.Format(disk.BytesPerPoint, "g3")} bytes per point, written for {disk.SampledPoints} points)");
     }
 
