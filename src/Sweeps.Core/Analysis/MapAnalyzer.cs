@@ -23,7 +23,6 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] scratch;
     private readonly double[] cycleProduct;
     private readonly double[] cyclePoint;
-    private readonly double[] cycleScratch;
     private double[] tangent;
     private double[] product;
     private readonly double[] norms;
@@ -40,8 +39,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
     // Several variables: Df, Df·Q and f in one generated call, the code the lanes of the block analyzer run.
     private readonly Kernels.MapStep<double>? tangentStep;
 
-    // ln|det J| summed over the measurement, kept like the norms: a running product of |det J|, its logarithm taken
-    // every FlushEvery steps or when it leaves the safe range.
+    // ln|det J| over the measurement, kept like the norms: a running product of |det J|, split with them, and logarithms
+    // taken when it leaves the safe range (into logDetSum) and at the end.
     private double logDetSum;
     private double detProduct;
 
@@ -71,7 +70,6 @@ public sealed class MapAnalyzer : IPointAnalyzer
         scratch = new double[n * n];
         cycleProduct = new double[n * n];
         cyclePoint = new double[n];
-        cycleScratch = new double[n * n];
         tangent = new double[n * vectors];
         product = new double[n * vectors];
         norms = new double[Math.Max(vectors, 1)];
@@ -161,7 +159,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
                 }
             }
 
-            if (tangentStep is null || vectors == 0)
+            if (tangentStep is null)
             {
                 model.Evaluate(x, parameters, 0, y);
             }
@@ -258,7 +256,7 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double CycleMultiplier(int period, double[] parameters)
     {
-        var (monodromy, next) = (cycleProduct, cycleScratch);
+        var (monodromy, next) = (cycleProduct, scratch);
         Array.Clear(monodromy);
         for (var i = 0; i < n; i++)
         {
@@ -401,21 +399,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
     /// the final state. Gives exactly what <see cref="Analyze"/> gives for the same orbit.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    internal PointResult Finish(double sum, double firstHalfSum, double final, double[] parameters)
-    {
-        x[0] = final;
-        if (vectors > 0)
-        {
-            sums[0] = sum;
-            firstHalf[0] = firstHalfSum;
-        }
-
-        logDetSum = 0;
-        return Classify(parameters);
-    }
+    internal PointResult Finish(double sum, double firstHalfSum, double final, double[] parameters) =>
+        Finish([final], [sum], [firstHalfSum], 0, parameters);
 
     /// <summary>
-    /// Classifies an orbit of a map of several variables computed elsewhere (by <see cref="Kernels.MapLaneAnalyzer"/>):
+    /// Classifies an orbit computed elsewhere (by <see cref="Kernels.MapLaneAnalyzer"/>, or the block kernel for one variable):
     /// the final state, per tangent vector the sum of the logarithms of its growth over the measurement and over its
     /// first half, the sum of ln|det J| (0 unless the full spectrum was computed), and the last recorded states written
     /// into <see cref="Window"/> beforehand. Gives exactly what <see cref="Analyze"/> gives for the same orbit.

@@ -141,6 +141,7 @@ public sealed class DormandPrinceStepper : Stepper
     }
 
     /// <summary>One trial step: the stages, then the error norm (both generated in one delegate when the system is).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private double Trial(double[] y, double t, double h)
     {
         if (generated is not null)
@@ -155,7 +156,6 @@ public sealed class DormandPrinceStepper : Stepper
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Stages(double[] y, double t, double h)
     {
-
         var n = y.Length;
         for (var i = 0; i < n; i++)
         {

@@ -80,11 +80,12 @@ internal sealed class VariationalCode
 
     /// <summary>
     /// Appends to the block the statements that compute the augmented derivative at
-    /// (<paramref name="time"/>, <paramref name="input"/>) and hand entry i to <paramref name="output"/>.
-    /// <paramref name="input"/> must be cheap and side-effect free (a local or an array element): it is read
-    /// once per use.
+    /// (<paramref name="time"/>, <paramref name="input"/>) and hand entry i to <paramref name="output"/> — for a map,
+    /// the image f(x) and J·q_c. <paramref name="input"/> must be cheap and side-effect free (a local or an array
+    /// element): it is read once per use. <paramref name="jacobianOutput"/>, when given, receives every Jacobian
+    /// entry (row-major; identically zero ones as zero) with the tangent vectors.
     /// </summary>
-    public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output)
+    public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output, Func<int, LinqExpression, LinqExpression>? jacobianOutput = null)
     {
         var n = model.Dimension;
         var now = model.UsesTime && Lanes ? Local(Broadcast(time)) : time;
@@ -102,6 +103,7 @@ internal sealed class VariationalCode
 
         // All values first, then the outputs: an output may overwrite an input (in-place stages).
         var values = new List<(int Index, LinqExpression Value)>();
+        var entries = new List<LinqExpression>();
         for (var i = 0; i < n; i++)
         {
             values.Add((i, Local(emitter.Emit(model.Equations[i]))));
@@ -115,6 +117,11 @@ internal sealed class VariationalCode
                 if (model.Jacobian[entry] is not NumberNode { Value: 0 })
                 {
                     jacobian[entry] = Local(emitter.Emit(model.Jacobian[entry]));
+                }
+
+                if (jacobianOutput is not null)
+                {
+                    entries.Add(jacobianOutput(entry, jacobian[entry] ?? Constant(0.0)));
                 }
             }
 
@@ -143,6 +150,8 @@ internal sealed class VariationalCode
         {
             body.Add(output(index, value));
         }
+
+        body.AddRange(entries);
     }
 
     /// <summary>A new local of the value type.</summary>

@@ -399,14 +399,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void StopEscaped(long steps, double t, int count)
     {
-        var escape = Vector256.Create(settings.Escape);
-        var inside = Vector256<double>.AllBitsSet;
-        for (var i = 0; i < count; i++)
-        {
-            inside &= Vector256.LessThanOrEqual(Vector256.Abs(y[i]), escape);
-        }
-
-        var escaped = (int)~inside.ExtractMostSignificantBits() & live;
+        var escaped = LaneMath.Escaped(y, count, settings.Escape) & live;
         while (escaped != 0)
         {
             var j = System.Numerics.BitOperations.TrailingZeroCount(escaped);

@@ -172,18 +172,13 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
     }
 
-    /// <summary>Splits each running product into mantissa and binary exponent (<see cref="MapAnalyzer.Split"/>, lane-wise).</summary>
+    /// <summary>Splits each running product into mantissa and binary exponent (<see cref="LaneMath.Split"/>).</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Flush()
     {
-        var mantissa = Vector256.Create(MapAnalyzer.MantissaBits);
-        var one = Vector256.Create(MapAnalyzer.OneBits);
-        var bias = Vector256.Create(1023L);
         for (var g = 0; g < Groups; g++)
         {
-            var bits = product[g].AsInt64();
-            binaryExponents[g] += Vector256.ShiftRightLogical(bits, 52) - bias;
-            product[g] = ((bits & mantissa) | one).AsDouble();
+            product[g] = LaneMath.Split(product[g], ref binaryExponents[g]);
         }
     }
 

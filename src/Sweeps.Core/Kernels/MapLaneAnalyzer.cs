@@ -264,33 +264,13 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     {
         for (var c = 0; c < vectors; c++)
         {
-            products[c] = Split(products[c], ref exponents[c]);
+            products[c] = LaneMath.Split(products[c], ref exponents[c]);
         }
 
-        detProduct = Split(detProduct, ref detExponent);
+        detProduct = LaneMath.Split(detProduct, ref detExponent);
     }
 
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    private static Vector256<double> Split(Vector256<double> value, ref Vector256<long> exponent)
-    {
-        var bits = value.AsInt64();
-        exponent += Vector256.ShiftRightLogical(bits, 52) - Vector256.Create(1023L);
-        return ((bits & Vector256.Create(MapAnalyzer.MantissaBits)) | Vector256.Create(MapAnalyzer.OneBits)).AsDouble();
-    }
-
-    /// <summary>Lanes (bits 0–3) with a component beyond ±escape or not finite.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private int Escaped(Vector256<double>[] state)
-    {
-        var escape = Vector256.Create(settings.Escape);
-        var inside = Vector256<double>.AllBitsSet;
-        for (var i = 0; i < n; i++)
-        {
-            inside &= Vector256.LessThanOrEqual(Vector256.Abs(state[i]), escape);
-        }
-
-        return (int)~inside.ExtractMostSignificantBits() & 0xF;
-    }
+    private int Escaped(Vector256<double>[] state) => LaneMath.Escaped(state, n, settings.Escape);
 
     /// <summary>Lanes whose running product left (<see cref="MapAnalyzer.SafeLow"/>, <see cref="MapAnalyzer.SafeHigh"/>), where the scalar code takes a logarithm early.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -55,8 +55,7 @@ public static class ChunkRunner
             return;
         }
 
-        var fresh = new ChunkColumns(points.Length, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
-        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, fresh, points.Length, i => points[i], null, token);
+        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, ChunkColumns.For(spec, points.Length), points.Length, i => points[i], null, token);
         if (context.WritesAttractors)
         {
             await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
@@ -86,17 +85,15 @@ public static class ChunkRunner
     /// </summary>
     internal static (ChunkColumns Points, AttractorColumns Attractors) ComputeSample(Specs.SweepSpec spec, Core.Models.Model model, IReadOnlyList<long> points)
     {
-        var dimension = spec.Model.Variables.Count;
         var follow = spec.Grid.Follow is not null;
-        var columns = new ChunkColumns(points.Count, spec.Grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: follow, samples: spec.Analysis.Samples);
-        var writesAttractors = spec.StartCount > 1 || follow;
+        var columns = ChunkColumns.For(spec, points.Count, branches: follow);
         if (!follow)
         {
-            return ComputePoints(model, writesAttractors, spec, columns, points.Count, i => points[i], null, CancellationToken.None);
+            return ComputePoints(model, spec.GroupsAttractors, spec, columns, points.Count, i => points[i], null, CancellationToken.None);
         }
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, model);
-        var attractors = new AttractorColumns(dimension);
+        var attractors = new AttractorColumns(spec.Model.Variables.Count);
         var source = new Specs.PointSource(spec);
         foreach (var point in points)
         {
@@ -186,8 +183,7 @@ public static class ChunkRunner
         for (var i = 0; i < count; i += size)
         {
             var lanes = Math.Min(size, count - i);
-            var first = i;
-            source.Fill(lanes, j => pointAt(first + j));
+            source.Fill(lanes, pointAt, offset: i);
 
             try
             {
@@ -231,7 +227,7 @@ public static class ChunkRunner
         var lastLine = Math.Min(grid.LineCount, firstLine + linesPerChunk);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = new ChunkColumns((int)((lastLine - firstLine) * length), grid.Axes.Count, dimension, spec.Analysis.Indicators, branches: true, samples: spec.Analysis.Samples);
+        var columns = ChunkColumns.For(spec, (int)((lastLine - firstLine) * length), branches: true);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var forward = new PointResult[length];

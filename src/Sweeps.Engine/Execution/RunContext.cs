@@ -29,14 +29,17 @@ public sealed class RunContext
         Model = model ?? ModelFactory.Build(Spec);
         Schema = new PartSchema(Spec);
         AttractorSchema = new AttractorSchema(Spec);
-        Metadata = new Dictionary<string, string>
-        {
-            ["sweeps.spec_hash"] = run.Manifest.SpecHash,
-            ["sweeps.model_hash"] = run.Manifest.ModelHash,
-            ["sweeps.version"] = run.Manifest.ProgramVersion,
-            ["sweeps.samples_layout"] = string.Join(",", Spec.Model.Variables),
-        };
+        Metadata = PartMetadata(Spec, run.Manifest.SpecHash, run.Manifest.ModelHash, run.Manifest.ProgramVersion);
     }
+
+    /// <summary>The key–value metadata every part file of a run carries (part of the output contract).</summary>
+    internal static Dictionary<string, string> PartMetadata(SweepSpec spec, string specHash, string modelHash, string version) => new()
+    {
+        ["sweeps.spec_hash"] = specHash,
+        ["sweeps.model_hash"] = modelHash,
+        ["sweeps.version"] = version,
+        ["sweeps.samples_layout"] = string.Join(",", spec.Model.Variables),
+    };
 
     public RunDirectory Run { get; }
 
@@ -49,7 +52,7 @@ public sealed class RunContext
     public AttractorSchema AttractorSchema { get; }
 
     /// <summary>Whether chunks write attractor parts: only when a point can have several outcomes (several starts, or a continuation sweep's two directions).</summary>
-    public bool WritesAttractors => Spec.StartCount > 1 || Spec.Grid.Follow is not null;
+    public bool WritesAttractors => Spec.GroupsAttractors;
 
     public IReadOnlyDictionary<string, string> Metadata { get; }
 
@@ -67,7 +70,7 @@ public sealed class RunContext
             return columns;
         }
 
-        return new ChunkColumns(count, Spec.Grid.Axes.Count, Spec.Model.Variables.Count, Spec.Analysis.Indicators, samples: Spec.Analysis.Samples);
+        return ChunkColumns.For(Spec, count);
     }
 
     /// <summary>Gives back columns whose part is written (their contents are no longer needed).</summary>

@@ -22,7 +22,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     /// </summary>
     public static CostEstimate Measure(SweepSpec spec, Core.Models.Model model, bool quick = false, int samples = 12)
     {
-        var lean = spec.StartCount == 1 && spec.Grid.Follow is null;
+        var lean = !spec.GroupsAttractors;
         if (AnalyzerFactory.CreateBlock(spec, model, lean) is { } block)
         {
             return MeasureBlocks(spec, block, quick);

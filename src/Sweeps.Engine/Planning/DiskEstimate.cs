@@ -49,16 +49,10 @@ public sealed record DiskEstimate(int SampledPoints, double BytesPerPoint, doubl
     private static double Write(SweepSpec spec, Core.Models.Model model, long[] points, string path)
     {
         var (columns, attractors) = ChunkRunner.ComputeSample(spec, model, points);
-        var metadata = new Dictionary<string, string>
-        {
-            ["sweeps.spec_hash"] = SpecFingerprint.SpecHash(spec),
-            ["sweeps.model_hash"] = SpecFingerprint.ModelHash(spec.Model),
-            ["sweeps.version"] = ProgramInfo.Version,
-            ["sweeps.samples_layout"] = string.Join(",", spec.Model.Variables),
-        };
+        var metadata = RunContext.PartMetadata(spec, SpecFingerprint.SpecHash(spec), SpecFingerprint.ModelHash(spec.Model), ProgramInfo.Version);
         PartWriter.WriteAsync(path, new PartSchema(spec), columns, metadata, CancellationToken.None).GetAwaiter().GetResult();
         var bytes = (double)new FileInfo(path).Length;
-        if (spec.StartCount > 1 || spec.Grid.Follow is not null)
+        if (spec.GroupsAttractors)
         {
             var attractorPath = path + ".attractors";
             PartWriter.WriteAsync(attractorPath, new AttractorSchema(spec), attractors, metadata, CancellationToken.None).GetAwaiter().GetResult();

@@ -36,7 +36,7 @@ public sealed class AttractorLabels
         var variables = spec.Model.Variables;
         var catalog = new AttractorCatalog(spec.Analysis.Tolerance, spec.Analysis.ZeroBand);
         var byPoint = new Dictionary<long, int>();
-        if (!(spec.StartCount > 1 || spec.Grid.Follow is not null))
+        if (!spec.GroupsAttractors)
         {
             await FromPointsAsync(run, spec, catalog, byPoint, token);
             return new AttractorLabels(points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray(), catalog.Known, catalog.Overflowed);

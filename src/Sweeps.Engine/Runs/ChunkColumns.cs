@@ -32,6 +32,10 @@ internal sealed class ChunkColumns
         Reason = new string?[capacity];
     }
 
+    /// <summary>Columns for <paramref name="capacity"/> rows of <paramref name="spec"/>'s parts (with the backward branch when asked).</summary>
+    public static ChunkColumns For(Specs.SweepSpec spec, int capacity, bool branches = false) =>
+        new(capacity, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, branches, spec.Analysis.Samples);
+
     public int Count { get; private set; }
 
     /// <summary>Rows the columns hold at most.</summary>

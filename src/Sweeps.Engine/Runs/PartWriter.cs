@@ -18,7 +18,7 @@ public static class PartWriter
     public static async Task WarmUpAsync(Specs.SweepSpec spec)
     {
         var n = spec.Model.Variables.Count;
-        var columns = new ChunkColumns(1, spec.Grid.Axes.Count, n, spec.Analysis.Indicators, samples: spec.Analysis.Samples);
+        var columns = ChunkColumns.For(spec, 1);
         columns.Add(0, new double[spec.Grid.Axes.Count], Core.Analysis.PointResult.Stopped(Core.Analysis.Regime.Unresolved, n, new double[n], null, "warm-up"));
         var path = Path.Combine(Path.GetTempPath(), $"sweeps-warm-up-{Guid.NewGuid():N}.parquet");
         try

@@ -26,13 +26,13 @@ public sealed class BlockSource
 
     public double[][] AxisValues { get; }
 
-    /// <summary>Fills lanes 0 … <paramref name="lanes"/> − 1 with the points <paramref name="pointAt"/> names.</summary>
+    /// <summary>Fills lanes 0 … <paramref name="lanes"/> − 1 with the points <paramref name="pointAt"/> names for <paramref name="offset"/> + lane.</summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    public void Fill(int lanes, Func<int, long> pointAt)
+    public void Fill(int lanes, Func<int, long> pointAt, int offset = 0)
     {
         for (var j = 0; j < lanes; j++)
         {
-            Points[j] = pointAt(j);
+            Points[j] = pointAt(offset + j);
             source.Fill(Points[j]);
             source.Initial.CopyTo(Initial[j], 0);
             source.Parameters.CopyTo(Parameters[j], 0);

@@ -37,4 +37,11 @@ public sealed record SweepSpec(
 
     /// <summary>Full analyses per grid point: one per start, or two (forward and backward) in a continuation sweep.</summary>
     public int AnalysesPerPoint => Grid.Follow is null ? StartCount : 2;
+
+    /// <summary>
+    /// Whether a point can have several outcomes (several starts, or a continuation sweep's two directions): only then
+    /// are outcomes grouped into attractors and attractor parts written, and only then do results need their cycle
+    /// states and boxes.
+    /// </summary>
+    public bool GroupsAttractors => StartCount > 1 || Grid.Follow is not null;
 }

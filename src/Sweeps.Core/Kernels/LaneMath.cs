@@ -1,0 +1,32 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using Sweeps.Core.Analysis;
+
+namespace Sweeps.Core.Kernels;
+
+/// <summary>Lane-wise forms of the scalar analyzers' per-step tests and bookkeeping, shared by the block analyzers.</summary>
+internal static class LaneMath
+{
+    /// <summary>Lanes (bits 0–3) where one of the first <paramref name="count"/> components is beyond ±<paramref name="escape"/> or not finite — <see cref="PointResult.Bounded"/> on each lane.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public static int Escaped(Vector256<double>[] values, int count, double escape)
+    {
+        var bound = Vector256.Create(escape);
+        var inside = Vector256<double>.AllBitsSet;
+        for (var i = 0; i < count; i++)
+        {
+            inside &= Vector256.LessThanOrEqual(Vector256.Abs(values[i]), bound);
+        }
+
+        return (int)~inside.ExtractMostSignificantBits() & 0xF;
+    }
+
+    /// <summary>A running product split into mantissa (returned) and binary exponent (added to <paramref name="exponent"/>): <see cref="MapAnalyzer.Split"/> on each lane, exact.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Vector256<double> Split(Vector256<double> value, ref Vector256<long> exponent)
+    {
+        var bits = value.AsInt64();
+        exponent += Vector256.ShiftRightLogical(bits, 52) - Vector256.Create(1023L);
+        return ((bits & Vector256.Create(MapAnalyzer.MantissaBits)) | Vector256.Create(MapAnalyzer.OneBits)).AsDouble();
+    }
+}
