@@ -34,27 +34,81 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         var source = new PointSource(spec);
 
         // Warm-up: the first analyses run while the JIT is still compiling and optimising.
-        for (var i = 0; i < 3; i++)
+        for (var i = 0; i < (quick ? 1 : 3); i++)
         {
             source.Fill(0);
             analyzer.Analyze(source.Initial, source.Parameters);
         }
 
-        var times = new double[count];
-        for (var i = 0; i < count; i++)
+        // Evenly spaced points, visited so that those timed so far are always spread over the grid; a quick estimate
+        // stops after a few hundredths of a second (points of slow flows take milliseconds each).
+        var clock = Stopwatch.StartNew();
+        var times = new List<double>(count);
+        foreach (var i in SpreadOrder(count))
         {
+            if (quick && times.Count >= QuickMinimum && clock.Elapsed.TotalSeconds > QuickBudget)
+            {
+                break;
+            }
+
             source.Fill(count == 1 ? 0 : (long)((double)i * (points - 1) / (count - 1)));
-            var clock = Stopwatch.StartNew();
+            var started = clock.Elapsed.TotalSeconds;
             analyzer.Analyze(source.Initial, source.Parameters);
-            times[i] = clock.Elapsed.TotalSeconds;
+            times.Add(clock.Elapsed.TotalSeconds - started);
         }
 
         // The mean of the middle half: robust to a late JIT pause, still sensitive to expensive regions.
-        Array.Sort(times);
-        var middle = times.Skip(count / 4).Take(Math.Max(1, count - (2 * (count / 4)))).ToArray();
+        times.Sort();
+        var timed = times.Count;
+        var middle = times.Skip(timed / 4).Take(Math.Max(1, timed - (2 * (timed / 4)))).ToArray();
         // Every start of a point is a full analysis, and a continuation sweep analyses each point twice.
         var perPoint = middle.Average() * spec.AnalysesPerPoint;
-        return new CostEstimate(count, perPoint, perPoint * points);
+        return new CostEstimate(timed, perPoint, perPoint * points);
+    }
+
+    /// <summary>Fewest points a quick estimate times, and the time after which it stops timing more.</summary>
+    private const int QuickMinimum = 4;
+
+    private const double QuickBudget = 0.04;
+
+    /// <summary>
+    /// 0 … <paramref name="count"/> − 1, the two ends first, then the rest in the order of their bit-reversed index (the
+    /// van der Corput sequence): every prefix is spread over the whole range, so an estimate that stops early has still
+    /// seen both ends of the grid and points between them.
+    /// </summary>
+    internal static IEnumerable<int> SpreadOrder(int count)
+    {
+        if (count <= 0)
+        {
+            yield break;
+        }
+
+        yield return 0;
+        if (count == 1)
+        {
+            yield break;
+        }
+
+        yield return count - 1;
+        var bits = 0;
+        while ((1 << bits) < count)
+        {
+            bits++;
+        }
+
+        for (var k = 0; k < 1 << bits; k++)
+        {
+            var reversed = 0;
+            for (var b = 0; b < bits; b++)
+            {
+                reversed |= ((k >> b) & 1) << (bits - 1 - b);
+            }
+
+            if (reversed > 0 && reversed < count - 1)
+            {
+                yield return reversed;
+            }
+        }
     }
 
     /// <summary>Points a block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
