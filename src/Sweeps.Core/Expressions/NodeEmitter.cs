@@ -14,21 +14,34 @@ namespace Sweeps.Core.Expressions;
 /// <param name="constant">How a number becomes a value (a vector constant lives in a variable set up front).</param>
 /// <param name="symbol">How a variable, parameter or the time is read.</param>
 /// <param name="call">How a function of the catalog is applied to emitted arguments.</param>
+/// <param name="stateFree">
+/// When given, every function call (and non-integer power) that reads no variable goes through it, with the node and
+/// a way to emit it: the caller may hand back a value it computed before — the same operations, so the same bits.
+/// </param>
 internal sealed class NodeEmitter(
     Type type,
     Func<double, LinqExpression> constant,
     Func<SymbolNode, LinqExpression> symbol,
-    Func<MethodInfo, IReadOnlyList<LinqExpression>, LinqExpression> call)
+    Func<MethodInfo, IReadOnlyList<LinqExpression>, LinqExpression> call,
+    Func<Node, Func<LinqExpression>, LinqExpression>? stateFree = null)
 {
     /// <summary>Block variables the emitted code needs (declare them in the enclosing block).</summary>
     public List<ParameterExpression> Temporaries { get; } = [];
 
-    public LinqExpression Emit(Node node) => node switch
+    public LinqExpression Emit(Node node) =>
+        stateFree is not null && node is CallNode or BinaryNode { Operator: BinaryOperator.Power } && !IsSmallPower(node) && !ExpressionQueries.Mentions(node, SymbolKind.Variable)
+            ? stateFree(node, () => EmitNode(node))
+            : EmitNode(node);
+
+    private static bool IsSmallPower(Node node) =>
+        node is BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } && Evaluator.IsSmallInteger(exponent.Value);
+
+    private LinqExpression EmitNode(Node node) => node switch
     {
         NumberNode number => constant(number.Value),
         SymbolNode symbolNode => symbol(symbolNode),
         NegateNode negate => LinqExpression.Negate(Emit(negate.Operand)),
-        BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } power when Evaluator.IsSmallInteger(exponent.Value) =>
+        BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } power when IsSmallPower(power) =>
             IntegerPower(Emit(power.Left), (int)exponent.Value),
         BinaryNode binary => Binary(binary),
         CallNode function => call(FunctionCatalog.Method(function.Function), function.Arguments.Select(Emit).ToArray()),

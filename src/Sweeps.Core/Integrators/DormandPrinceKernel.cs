@@ -59,6 +59,7 @@ internal static class DormandPrinceKernel
             (1, [A61, A62, A63, A64, A65]),
             (1, [A71, 0, A73, A74, A75, A76]),
         ];
+        var end = LinqExpression.Add(t, h);
         foreach (var (c, a) in rows)
         {
             var last = k.Count == 6;
@@ -71,8 +72,9 @@ internal static class DormandPrinceKernel
                 body.Add(LinqExpression.Assign(target[i], LinqExpression.Add(y[i], increment)));
             }
 
-            // The stepper evaluates the last two stages at t + h itself, the others at t + c·h.
-            LinqExpression time = c == 1 ? LinqExpression.Add(t, h) : LinqExpression.Add(t, LinqExpression.Multiply(LinqExpression.Constant(c), h));
+            // The stepper evaluates the last two stages at t + h itself, the others at t + c·h. The last two share one
+            // time expression, so functions of the time alone (a forcing term) are evaluated once for both.
+            var time = c == 1 ? end : LinqExpression.Add(t, LinqExpression.Multiply(LinqExpression.Constant(c), h));
             var slope = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
             code.Emit(i => target[i], time, (i, value) => LinqExpression.Assign(slope[i], value));
             k.Add(slope);

@@ -23,6 +23,10 @@ internal sealed class VariationalCode
     private readonly int vectors;
     private readonly ParameterExpression[] parameters;
     private readonly Dictionary<long, ParameterExpression> constants = [];
+
+    // Function values that read no variable, kept from the first evaluation that needed them: those that read
+    // parameters only, for every later one; those that read the time too, for later ones at the same time expression.
+    private readonly Dictionary<(LinqExpression? Time, Node Node), ParameterExpression> stateFree = [];
     private readonly List<LinqExpression> body;
 
     /// <param name="model">The flow.</param>
@@ -82,7 +86,9 @@ internal sealed class VariationalCode
     /// Appends to the block the statements that compute the augmented derivative at
     /// (<paramref name="time"/>, <paramref name="input"/>) and hand entry i to <paramref name="output"/> — for a map,
     /// the image f(x) and J·q_c. <paramref name="input"/> must be cheap and side-effect free (a local or an array
-    /// element): it is read once per use. <paramref name="jacobianOutput"/>, when given, receives every Jacobian
+    /// element): it is read once per use. Function values that read no variable are computed once per block for the
+    /// parameters, and once per <paramref name="time"/> expression (pass the same object for stages at the same time):
+    /// the block is straight-line code, so the first evaluation always runs before the later ones read it. <paramref name="jacobianOutput"/>, when given, receives every Jacobian
     /// entry (row-major; identically zero ones as zero) with the tangent vectors.
     /// </summary>
     public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output, Func<int, LinqExpression, LinqExpression>? jacobianOutput = null)
@@ -99,7 +105,19 @@ internal sealed class VariationalCode
                 SymbolKind.Parameter => parameters[symbol.Index],
                 _ => now,
             },
-            (method, arguments) => Lanes ? MapKernel.PerLane(emitter!, method, arguments) : LinqExpression.Call(method, arguments));
+            (method, arguments) => Lanes ? MapKernel.PerLane(emitter!, method, arguments) : LinqExpression.Call(method, arguments),
+            (node, emit) =>
+            {
+                var key = (ExpressionQueries.Mentions(node, SymbolKind.Time) ? time : null, node);
+                if (stateFree.TryGetValue(key, out var known))
+                {
+                    return known;
+                }
+
+                var local = Local();
+                stateFree[key] = local;
+                return LinqExpression.Assign(local, emit());
+            });
 
         // All values first, then the outputs: an output may overwrite an input (in-place stages).
         var values = new List<(int Index, LinqExpression Value)>();

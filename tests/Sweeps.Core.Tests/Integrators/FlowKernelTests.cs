@@ -9,7 +9,8 @@ namespace Sweeps.Core.Tests.Integrators;
 /// reference loops it replaces: the same operations in the same order, so every value must agree bit for
 /// bit (an exact zero may differ in sign, which compares equal). Models cover a constant Jacobian entry,
 /// identically zero entries, a cube, a transcendental function and explicit time (a forced system, where a
-/// stage evaluated at the wrong time would show).
+/// stage evaluated at the wrong time would show), and functions of the parameters and time alone that appear in
+/// several equations and Jacobian entries (computed once per step and per stage time in the generated code).
 /// </summary>
 public sealed class FlowKernelTests
 {
@@ -18,6 +19,7 @@ public sealed class FlowKernelTests
         { "lorenz", [10, 28, 8.0 / 3] },
         { "forced", [0.3, 1.2, 1.1] },
         { "pendulum", [0.25] },
+        { "pumped", [0.2, 1.7, 0.9, 0.4] },
     };
 
     [Theory]
@@ -125,6 +127,12 @@ public sealed class FlowKernelTests
     {
         "lorenz" => Maps.Build(ModelKind.Flow, ["x", "y", "z"], ["sigma", "rho", "beta"], "sigma*(y - x)", "x*(rho - z) - y", "x*y - beta*z"),
         "forced" => Maps.Build(ModelKind.Flow, ["x", "v"], ["delta", "w", "gamma"], "v", "-delta*v - x - x^3 + gamma*cos(w*t)"),
+        "pumped" => Maps.Build(
+            ModelKind.Flow,
+            ["x", "v"],
+            ["delta", "k", "w", "gamma"],
+            "v + k^1.5*cos(w*t)",
+            "-delta*v - sqrt(k)*(1 + gamma*cos(w*t))*x - x^3 + exp(-k)*cos(w*t)"),
         _ => Maps.Build(ModelKind.Flow, ["q", "w"], ["damping"], "w", "-damping*w - sin(q)"),
     };
 }
