@@ -134,14 +134,14 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         }
         while (warmUp.Elapsed.TotalSeconds < budget);
 
-        // Four places along the grid, each timed five times; the median of each (a block is short enough for
-        // one collection or a background compilation to multiply its time).
+        // Four places along the grid, each timed five times (three for a quick estimate); the median of each (a block
+        // is short enough for one collection or a background compilation to multiply its time).
         var total = 0.0;
         const int Blocks = 4;
         for (var b = 0; b < Blocks; b++)
         {
             Fill(points * b / Blocks, lanes);
-            var times = new double[5];
+            var times = new double[quick ? 3 : 5];
             for (var repeat = 0; repeat < times.Length; repeat++)
             {
                 var clock = Stopwatch.StartNew();
