@@ -53,6 +53,21 @@ internal sealed record IndependentReader(IReadOnlyList<string> Columns, IReadOnl
         });
     }
 
+    /// <summary>The encodings of each column chunk of a part file's first row group, by column path.</summary>
+    public static IReadOnlyDictionary<string, IReadOnlyList<ParquetSharp.Encoding>> Encodings(string partFile)
+    {
+        using var reader = new ParquetFileReader(partFile);
+        using var group = reader.RowGroup(0);
+        var schema = reader.FileMetaData.Schema;
+        return Enumerable.Range(0, schema.NumColumns).ToDictionary(
+            c => schema.Column(c).Path.ToDotString(),
+            c =>
+            {
+                using var chunk = group.MetaData.GetColumnChunkMetaData(c);
+                return (IReadOnlyList<ParquetSharp.Encoding>)chunk.Encodings.ToArray();
+            });
+    }
+
     public static IReadOnlyDictionary<string, string> Metadata(string partFile)
     {
         using var reader = new ParquetFileReader(partFile);

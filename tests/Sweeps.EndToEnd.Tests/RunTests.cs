@@ -100,6 +100,11 @@ public sealed class RunTests
         Assert.Matches("^[0-9a-f]{64}$", metadata["sweeps.spec_hash"]);
         Assert.Matches("^[0-9a-f]{64}$", metadata["sweeps.model_hash"]);
         Assert.Equal("x,y", metadata["sweeps.samples_layout"]);
+
+        // The output contract: regime is dictionary-encoded, as the independent reader sees the column chunk.
+        var encodings = IndependentReader.Encodings(Path.Combine(temp.Path, "out", "parts", "part-000000.parquet"));
+        Assert.Contains(encodings["regime"], e => e is ParquetSharp.Encoding.PlainDictionary or ParquetSharp.Encoding.RleDictionary);
+        Assert.Contains(ParquetSharp.Encoding.DeltaBinaryPacked, encodings["point"]);
     }
 
     // The Van der Pol-type example at μ = 1 has its limit cycle of period 6.6632868593 (standard value, from memory).

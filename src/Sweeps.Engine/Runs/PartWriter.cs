@@ -10,6 +10,26 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 public static class PartWriter
 {
+    // String columns with a handful of distinct values: regime classes.
+    private static readonly string[] DictionaryColumns = ["regime", "backward_regime", "regime_before", "regime_after"];
+
+    /// <summary>
+    /// The writer settings of every table Sweeps writes: Snappy; the regime columns dictionary-encoded (Parquet.Net writes
+    /// strings plainly unless a column is named in its encoding hints: 70 KB of a 125 000-row part, 105 bytes encoded);
+    /// the point index, which rises by one along a part, delta-encoded (500 KB, 271 bytes).
+    /// </summary>
+    internal static ParquetOptions Options()
+    {
+        var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
+        foreach (var name in DictionaryColumns)
+        {
+            options.ColumnEncodingHints[name] = EncodingHint.Dictionary;
+        }
+
+        options.ColumnEncodingHints["point"] = EncodingHint.DeltaBinaryPacked;
+        return options;
+    }
+
     /// <summary>
     /// Writes and deletes a one-row part of <paramref name="spec"/>'s schema in the temporary folder. The first
     /// Parquet write of a process spends about a tenth of a second compiling the writer; a run does this on a
@@ -50,8 +70,7 @@ public static class PartWriter
         {
             await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
             {
-                var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
-                await using var writer = await ParquetWriter.CreateAsync(schema, stream, options, false, token);
+                await using var writer = await ParquetWriter.CreateAsync(schema, stream, Options(), false, token);
                 writer.CustomMetadata = metadata.ToDictionary();
                 await write(writer);
             }

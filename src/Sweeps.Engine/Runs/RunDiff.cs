@@ -102,7 +102,7 @@ public sealed record RunDiff(
         var lookup = Enumerable.Range(0, Before.Count).ToDictionary(i => Before.Point[i]);
         int Old(int row) => lookup[After.Point[row]];
         await using var stream = File.Create(path);
-        await using var writer = await ParquetWriter.CreateAsync(schema, stream, null, false, token);
+        await using var writer = await ParquetWriter.CreateAsync(schema, stream, PartWriter.Options(), false, token);
         using var group = writer.CreateRowGroup();
         await group.WriteAsync(point, (ReadOnlyMemory<long>)rows.Select(r => After.Point[r]).ToArray(), null, null, token);
         for (var a = 0; a < axes.Length; a++)

@@ -21,7 +21,7 @@ public static class RunExport
         {
             await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write))
             {
-                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, new ParquetOptions { CompressionMethod = CompressionMethod.Snappy }, false, token);
+                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, PartWriter.Options(), false, token);
                 writer.CustomMetadata = await MetadataAsync(parts, token);
                 foreach (var part in parts)
                 {
