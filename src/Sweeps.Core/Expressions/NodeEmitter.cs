@@ -29,9 +29,13 @@ internal sealed class NodeEmitter(
     public List<ParameterExpression> Temporaries { get; } = [];
 
     public LinqExpression Emit(Node node) =>
-        stateFree is not null && node is CallNode or BinaryNode { Operator: BinaryOperator.Power } && !IsSmallPower(node) && !ExpressionQueries.Mentions(node, SymbolKind.Variable)
+        stateFree is not null && IsFunction(node) && !ExpressionQueries.Mentions(node, SymbolKind.Variable)
             ? stateFree(node, () => EmitNode(node))
             : EmitNode(node);
+
+    /// <summary>A call of the catalog: a function, or a power that is not a small integer one.</summary>
+    private static bool IsFunction(Node node) =>
+        node is CallNode || (node is BinaryNode { Operator: BinaryOperator.Power } && !IsSmallPower(node));
 
     private static bool IsSmallPower(Node node) =>
         node is BinaryNode { Operator: BinaryOperator.Power, Right: NumberNode exponent } && Evaluator.IsSmallInteger(exponent.Value);

@@ -86,10 +86,11 @@ internal sealed class VariationalCode
     /// Appends to the block the statements that compute the augmented derivative at
     /// (<paramref name="time"/>, <paramref name="input"/>) and hand entry i to <paramref name="output"/> — for a map,
     /// the image f(x) and J·q_c. <paramref name="input"/> must be cheap and side-effect free (a local or an array
-    /// element): it is read once per use. Function values that read no variable are computed once per block for the
-    /// parameters, and once per <paramref name="time"/> expression (pass the same object for stages at the same time):
-    /// the block is straight-line code, so the first evaluation always runs before the later ones read it. <paramref name="jacobianOutput"/>, when given, receives every Jacobian
-    /// entry (row-major; identically zero ones as zero) with the tangent vectors.
+    /// element): it is read once per use. <paramref name="jacobianOutput"/>, when given, receives every Jacobian
+    /// entry (row-major; identically zero ones as zero) with the tangent vectors. Function values that read no
+    /// variable are computed once per block for the parameters, and once per <paramref name="time"/> expression (pass
+    /// the same object for stages at the same time): the block is straight-line code, so the first evaluation always
+    /// runs before the later ones read it.
     /// </summary>
     public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output, Func<int, LinqExpression, LinqExpression>? jacobianOutput = null)
     {
