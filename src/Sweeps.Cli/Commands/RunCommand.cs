@@ -65,6 +65,8 @@ internal static class RunCommand
 
     private static async Task WarmUpWriterAsync(SweepSpec spec)
     {
+        // The manifest's serialiser first (the run directory needs it next), then the Parquet writer.
+        RunDirectory.WarmUp();
         try
         {
             await PartWriter.WarmUpAsync(spec);
