@@ -196,7 +196,7 @@ internal sealed class PeriodDetector
 
         for (; i >= shift; i--)
         {
-            var (a, b) = (values[i], values[i - (p * n)]);
+            var (a, b) = (values[i], values[i - shift]);
             if (!(Math.Abs(a - b) <= limit * (1.0 + Math.Max(Math.Abs(a), Math.Abs(b)))))
             {
                 return false;

@@ -139,5 +139,6 @@ internal static class FlowKernels
 
     private static ParameterExpression Array(string name) => LinqExpression.Parameter(typeof(double[]), name);
 
-    private static LinqExpression Element(ParameterExpression array, int index) => LinqExpression.ArrayAccess(array, LinqExpression.Constant(index));
+    /// <summary>Entry <paramref name="index"/> of an array parameter, as an assignable expression (shared by the generated steps).</summary>
+    internal static LinqExpression Element(ParameterExpression array, int index) => LinqExpression.ArrayAccess(array, LinqExpression.Constant(index));
 }

@@ -47,19 +47,17 @@ internal static class MapStepCode
         var state = Enumerable.Range(0, n).Select(_ => code.Local()).ToArray();
         for (var i = 0; i < n; i++)
         {
-            body.Add(LinqExpression.Assign(state[i], Element(x, i)));
+            body.Add(LinqExpression.Assign(state[i], FlowKernels.Element(x, i)));
         }
 
         code.Emit(
-            i => i < n ? state[i] : Element(q, i - n),
+            i => i < n ? state[i] : FlowKernels.Element(q, i - n),
             LinqExpression.Constant(0.0),
-            (i, value) => LinqExpression.Assign(i < n ? Element(y, i) : Element(jq, i - n), value),
-            (entry, value) => LinqExpression.Assign(Element(jacobian, entry), value));
+            (i, value) => LinqExpression.Assign(i < n ? FlowKernels.Element(y, i) : FlowKernels.Element(jq, i - n), value),
+            (entry, value) => LinqExpression.Assign(FlowKernels.Element(jacobian, entry), value));
         body.Add(LinqExpression.Empty());
         return LinqExpression.Lambda<MapStep<T>>(LinqExpression.Block(code.Variables, body), x, p, q, jq, jacobian, y).Compile();
 
         ParameterExpression Array(string name) => LinqExpression.Parameter(typeof(T[]), name);
     }
-
-    private static LinqExpression Element(ParameterExpression array, int index) => LinqExpression.ArrayAccess(array, LinqExpression.Constant(index));
 }
