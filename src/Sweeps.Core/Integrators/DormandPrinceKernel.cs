@@ -1,4 +1,6 @@
 using System.Linq.Expressions;
+using System.Runtime.Intrinsics;
+using Sweeps.Core.Kernels;
 using Sweeps.Core.Models;
 using static Sweeps.Core.Integrators.DormandPrinceStepper;
 using LinqExpression = System.Linq.Expressions.Expression;
@@ -14,6 +16,27 @@ internal delegate double DormandPrinceStages(
     double[] y, double[] p, double t, double h, double[] k1, double[] k2, double[] k3, double[] k4, double[] k5, double[] k6, double[] k7, double[] next, double atol, double rtol);
 
 /// <summary>
+/// <see cref="DormandPrinceStages"/> for four points side by side, each with its own time and step: entry i of each
+/// array holds component i of the four points' values; returns the four error norms (NaN where a lane's is not
+/// finite). Every lane computes what the scalar delegate computes for its point, bit for bit.
+/// </summary>
+internal delegate Vector256<double> DormandPrinceLaneStages(
+    Vector256<double>[] y,
+    Vector256<double>[] p,
+    Vector256<double> t,
+    Vector256<double> h,
+    Vector256<double>[] k1,
+    Vector256<double>[] k2,
+    Vector256<double>[] k3,
+    Vector256<double>[] k4,
+    Vector256<double>[] k5,
+    Vector256<double>[] k6,
+    Vector256<double>[] k7,
+    Vector256<double>[] next,
+    double atol,
+    double rtol);
+
+/// <summary>
 /// Generates <see cref="DormandPrinceStages"/> for a model: the stage loops of <see cref="DormandPrinceStepper"/>
 /// as straight-line code with the fused augmented right-hand side inlined, the stage states in locals — the same
 /// operations in the same order (stage = y + h·((a₁k₁ + a₂k₂) + …), the first one y + (h·a₂₁)·k₁), so the
@@ -22,15 +45,20 @@ internal delegate double DormandPrinceStages(
 internal static class DormandPrinceKernel
 {
     public static DormandPrinceStages Stages(Model model, int vectors) =>
-        (DormandPrinceStages)FlowKernels.Cached(model, "dopri5", vectors, () => Build(model, vectors));
+        (DormandPrinceStages)FlowKernels.Cached(model, "dopri5", vectors, () => Build<DormandPrinceStages>(model, vectors, lanes: false));
 
-    private static DormandPrinceStages Build(Model model, int vectors)
+    /// <summary>The stages of four points at once, each lane as <see cref="Stages"/> computes it.</summary>
+    public static DormandPrinceLaneStages Lanes(Model model, int vectors) =>
+        (DormandPrinceLaneStages)FlowKernels.Cached(model, "dopri5 lanes", vectors, () => Build<DormandPrinceLaneStages>(model, vectors, lanes: true));
+
+    private static TDelegate Build<TDelegate>(Model model, int vectors, bool lanes)
     {
+        var value = lanes ? typeof(Vector256<double>) : typeof(double);
         var arrays = new[] { "y", "p", "k1", "k2", "k3", "k4", "k5", "k6", "k7", "next" }
-            .ToDictionary(name => name, name => LinqExpression.Parameter(typeof(double[]), name));
-        var (t, h) = (LinqExpression.Parameter(typeof(double), "t"), LinqExpression.Parameter(typeof(double), "h"));
+            .ToDictionary(name => name, name => LinqExpression.Parameter(value.MakeArrayType(), name));
+        var (t, h) = (LinqExpression.Parameter(value, "t"), LinqExpression.Parameter(value, "h"));
         var body = new List<LinqExpression>();
-        var code = new VariationalCode(model, vectors, lanes: false, arrays["p"], body);
+        var code = new VariationalCode(model, vectors, lanes, arrays["p"], body);
         var size = code.Dimension;
         LinqExpression Element(string array, int i) => LinqExpression.ArrayAccess(arrays[array], LinqExpression.Constant(i));
         ParameterExpression[] Load(string array)
@@ -67,14 +95,14 @@ internal static class DormandPrinceKernel
             for (var i = 0; i < size; i++)
             {
                 var increment = a.Length == 1
-                    ? LinqExpression.Multiply(LinqExpression.Multiply(h, LinqExpression.Constant(a[0])), k[0][i])
-                    : LinqExpression.Multiply(h, Sum(a, k, i));
+                    ? LinqExpression.Multiply(LinqExpression.Multiply(h, code.Constant(a[0])), k[0][i])
+                    : LinqExpression.Multiply(h, Sum(code, a, k, i));
                 body.Add(LinqExpression.Assign(target[i], LinqExpression.Add(y[i], increment)));
             }
 
             // The stepper evaluates the last two stages at t + h itself, the others at t + c·h. The last two share one
             // time expression, so functions of the time alone (a forcing term) are evaluated once for both.
-            var time = c == 1 ? end : LinqExpression.Add(t, LinqExpression.Multiply(LinqExpression.Constant(c), h));
+            var time = c == 1 ? end : LinqExpression.Add(t, LinqExpression.Multiply(code.Constant(c), h));
             var slope = Enumerable.Range(0, size).Select(_ => code.Local()).ToArray();
             code.Emit(i => target[i], time, (i, value) => LinqExpression.Assign(slope[i], value));
             k.Add(slope);
@@ -97,35 +125,43 @@ internal static class DormandPrinceKernel
         }
 
         // The error norm from the stages still in locals, as the stepper's loop computes it: Math.Max carries a NaN
-        // through to the result, where the loop returns it at once — the same NaN either way.
+        // through to the result, where the loop returns it at once — the same NaN either way. Lanes take Math.Max's
+        // lane-wise form (LaneMath.Maximum), so a NaN anywhere in a lane's sums makes that lane's norm NaN too.
         var (atol, rtol) = (LinqExpression.Parameter(typeof(double), "atol"), LinqExpression.Parameter(typeof(double), "rtol"));
-        var abs = typeof(Math).GetMethod(nameof(Math.Abs), [typeof(double)])!;
-        var max = typeof(Math).GetMethod(nameof(Math.Max), [typeof(double), typeof(double)])!;
+        var abs = lanes ? AbsoluteValue : typeof(Math).GetMethod(nameof(Math.Abs), [typeof(double)])!;
+        var max = lanes ? typeof(LaneMath).GetMethod(nameof(LaneMath.Maximum))! : typeof(Math).GetMethod(nameof(Math.Max), [typeof(double), typeof(double)])!;
+        var (absolute, relative) = (code.Local(), code.Local());
+        body.Add(LinqExpression.Assign(absolute, code.Broadcast(atol)));
+        body.Add(LinqExpression.Assign(relative, code.Broadcast(rtol)));
         var worst = code.Local();
-        body.Add(LinqExpression.Assign(worst, LinqExpression.Constant(0.0)));
+        body.Add(LinqExpression.Assign(worst, code.Constant(0.0)));
         double[] weights = [E1, 0, E3, E4, E5, E6, E7];
         for (var i = 0; i < size; i++)
         {
-            var estimate = LinqExpression.Multiply(h, Sum(weights, k, i));
-            var scale = LinqExpression.Add(atol, LinqExpression.Multiply(rtol, LinqExpression.Call(max, LinqExpression.Call(abs, y[i]), LinqExpression.Call(abs, fifth[i]))));
+            var estimate = LinqExpression.Multiply(h, Sum(code, weights, k, i));
+            var scale = LinqExpression.Add(absolute, LinqExpression.Multiply(relative, LinqExpression.Call(max, LinqExpression.Call(abs, y[i]), LinqExpression.Call(abs, fifth[i]))));
             var ratio = LinqExpression.Divide(LinqExpression.Call(abs, estimate), scale);
             body.Add(LinqExpression.Assign(worst, LinqExpression.Call(max, worst, ratio)));
         }
 
         body.Add(worst);
         var parameters = new[] { arrays["y"], arrays["p"], t, h, arrays["k1"], arrays["k2"], arrays["k3"], arrays["k4"], arrays["k5"], arrays["k6"], arrays["k7"], arrays["next"], atol, rtol };
-        return LinqExpression.Lambda<DormandPrinceStages>(LinqExpression.Block(code.Variables, body), parameters).Compile();
+        return LinqExpression.Lambda<TDelegate>(LinqExpression.Block(code.Variables, body), parameters).Compile();
     }
 
+    /// <summary><see cref="Vector256.Abs{T}"/> for doubles.</summary>
+    private static System.Reflection.MethodInfo AbsoluteValue =>
+        typeof(Vector256).GetMethods().Single(m => m.Name == nameof(Vector256.Abs) && m.IsGenericMethodDefinition).MakeGenericMethod(typeof(double));
+
     /// <summary>((a₁·k₁ + a₂·k₂) + a₃·k₃) + …, left to right, skipping zero coefficients.</summary>
-    private static LinqExpression Sum(double[] a, List<ParameterExpression[]> k, int i)
+    private static LinqExpression Sum(VariationalCode code, double[] a, List<ParameterExpression[]> k, int i)
     {
         LinqExpression? sum = null;
         for (var j = 0; j < a.Length; j++)
         {
             if (a[j] != 0)
             {
-                var term = LinqExpression.Multiply(LinqExpression.Constant(a[j]), k[j][i]);
+                var term = LinqExpression.Multiply(code.Constant(a[j]), k[j][i]);
                 sum = sum is null ? term : LinqExpression.Add(sum, term);
             }
         }

@@ -39,7 +39,7 @@ public sealed class DormandPrinceStepper : Stepper
     // and autonomous ones interpolate only around a section crossing.
     private double denseStep;
     private bool densePending;
-    private readonly double[] r1, r2, r3, r4, r5;
+    private readonly Dense dense;
     private double step;
     private bool slopeKnown;
 
@@ -49,7 +49,7 @@ public sealed class DormandPrinceStepper : Stepper
         this.settings = settings;
         var n = system.Dimension;
         (k1, k2, k3, k4, k5, k6, k7, stage, next) = (new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n], new double[n]);
-        (r1, r2, r3, r4, r5) = (new double[n], new double[n], new double[n], new double[n], new double[n]);
+        dense = new Dense(n);
         step = settings.Step;
         generated = system.Generated ? DormandPrinceKernel.Stages(system.Model, system.TangentVectors) : null;
     }
@@ -86,14 +86,12 @@ public sealed class DormandPrinceStepper : Stepper
             var h = Math.Min(step, limit - t);
             if (!(h > 0))
             {
-                Failure = "no time left to step";
-                return false;
+                return Fail(y, "no time left to step");
             }
 
             if (h < settings.MinStep && limit - t > settings.MinStep)
             {
-                Failure = $"step size fell below {settings.MinStep:g3} at t = {t:g6} (stiff or singular)";
-                return false;
+                return Fail(y, MinStepFailure(settings.MinStep, t));
             }
 
             var error = Trial(y, t, h);
@@ -125,19 +123,27 @@ public sealed class DormandPrinceStepper : Stepper
         }
     }
 
+    /// <summary>Why a step below the smallest allowed one cannot be taken.</summary>
+    internal static string MinStepFailure(double minStep, double t) => $"step size fell below {minStep:g3} at t = {t:g6} (stiff or singular)";
+
     public override void Interpolate(double theta, double[] output, int count)
     {
         if (densePending)
         {
-            PrepareDenseOutput(denseStep);
+            // The slopes have traded places: k7 holds the step's start slope, k1 its end slope.
+            dense.Prepare(denseStep, Start, next, k7, k3, k4, k5, k6, k1);
             densePending = false;
         }
 
-        var rest = 1 - theta;
-        for (var i = 0; i < count; i++)
-        {
-            output[i] = r1[i] + (theta * (r2[i] + (rest * (r3[i] + (theta * (r4[i] + (rest * r5[i])))))));
-        }
+        dense.Interpolate(theta, output, count);
+    }
+
+    /// <summary>A step that cannot be taken starts from the current state: that is the failed step's start.</summary>
+    private bool Fail(double[] y, string failure)
+    {
+        Array.Copy(y, Start, y.Length);
+        Failure = failure;
+        return false;
     }
 
     /// <summary>One trial step: the stages, then the error norm (both generated in one delegate when the system is).</summary>
@@ -215,19 +221,35 @@ public sealed class DormandPrinceStepper : Stepper
         return worst;
     }
 
-    /// <summary>The continuous extension of the last accepted step: its start state, end state and stages, with the start and end slopes traded places.</summary>
-    private void PrepareDenseOutput(double h)
+    /// <summary>
+    /// The continuous extension of one accepted step, from its start and end states and its stages (shared with the
+    /// lane-parallel analyzer, which prepares it for one lane).
+    /// </summary>
+    internal sealed class Dense(int n)
     {
-        var (y, startSlope, endSlope) = (Start, k7, k1);
-        for (var i = 0; i < y.Length; i++)
+        private readonly double[] r1 = new double[n], r2 = new double[n], r3 = new double[n], r4 = new double[n], r5 = new double[n];
+
+        public void Prepare(double h, double[] y, double[] next, double[] startSlope, double[] k3, double[] k4, double[] k5, double[] k6, double[] endSlope)
         {
-            var difference = next[i] - y[i];
-            var b = (h * startSlope[i]) - difference;
-            r1[i] = y[i];
-            r2[i] = difference;
-            r3[i] = b;
-            r4[i] = difference - (h * endSlope[i]) - b;
-            r5[i] = h * ((D1 * startSlope[i]) + (D3 * k3[i]) + (D4 * k4[i]) + (D5 * k5[i]) + (D6 * k6[i]) + (D7 * endSlope[i]));
+            for (var i = 0; i < r1.Length; i++)
+            {
+                var difference = next[i] - y[i];
+                var b = (h * startSlope[i]) - difference;
+                r1[i] = y[i];
+                r2[i] = difference;
+                r3[i] = b;
+                r4[i] = difference - (h * endSlope[i]) - b;
+                r5[i] = h * ((D1 * startSlope[i]) + (D3 * k3[i]) + (D4 * k4[i]) + (D5 * k5[i]) + (D6 * k6[i]) + (D7 * endSlope[i]));
+            }
+        }
+
+        public void Interpolate(double theta, double[] output, int count)
+        {
+            var rest = 1 - theta;
+            for (var i = 0; i < count; i++)
+            {
+                output[i] = r1[i] + (theta * (r2[i] + (rest * (r3[i] + (theta * (r4[i] + (rest * r5[i])))))));
+            }
         }
     }
 }

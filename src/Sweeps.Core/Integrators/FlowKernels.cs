@@ -21,6 +21,12 @@ internal delegate void FixedStep(double[] y, double[] p, double t, double h, dou
 internal delegate void LaneStep(Vector256<double>[] y, Vector256<double>[] p, double t, double h, Vector256<double>[] slope);
 
 /// <summary>
+/// The fused augmented derivative of four points side by side, each at its own time: entry i of each array holds
+/// component i of the four points' values.
+/// </summary>
+internal delegate void LaneField(Vector256<double>[] y, Vector256<double>[] p, Vector256<double> t, Vector256<double>[] dy);
+
+/// <summary>
 /// Run-time generated code for flows, compiled once per model (and tangent-vector count): the fused
 /// augmented right-hand side (one call instead of f, Df and a matrix product per evaluation), and the
 /// whole Euler or RK4 step as straight-line code whose stage values live in locals, not arrays. The
@@ -35,7 +41,11 @@ internal static class FlowKernels
 
     /// <summary>The fused augmented derivative: dy = (f, Df·q_1, …, Df·q_k) at (t, y).</summary>
     public static VectorField Derivative(Model model, int vectors) =>
-        (VectorField)Cached(model, "derivative", vectors, () => BuildDerivative(model, vectors));
+        (VectorField)Cached(model, "derivative", vectors, () => BuildDerivative<VectorField>(model, vectors, lanes: false));
+
+    /// <summary>The fused augmented derivative of four points at once, each lane as <see cref="Derivative"/> computes it.</summary>
+    public static LaneField LaneDerivative(Model model, int vectors) =>
+        (LaneField)Cached(model, "derivative lanes", vectors, () => BuildDerivative<LaneField>(model, vectors, lanes: true));
 
     /// <summary>The whole step of <paramref name="method"/> (Euler or RK4).</summary>
     public static FixedStep Step(Model model, int vectors, IntegratorMethod method) =>
@@ -48,14 +58,16 @@ internal static class FlowKernels
     internal static Delegate Cached(Model model, string kind, int vectors, Func<Delegate> build) =>
         Compiled.GetValue(model, _ => new()).GetOrAdd((kind, vectors), _ => new Lazy<Delegate>(build)).Value;
 
-    private static VectorField BuildDerivative(Model model, int vectors)
+    private static TDelegate BuildDerivative<TDelegate>(Model model, int vectors, bool lanes)
     {
-        var (y, p, t, dy) = (Array("y"), Array("p"), LinqExpression.Parameter(typeof(double), "t"), Array("dy"));
+        var number = lanes ? typeof(Vector256<double>) : typeof(double);
+        var (y, p, dy) = (LinqExpression.Parameter(number.MakeArrayType(), "y"), LinqExpression.Parameter(number.MakeArrayType(), "p"), LinqExpression.Parameter(number.MakeArrayType(), "dy"));
+        var t = LinqExpression.Parameter(number, "t");
         var body = new List<LinqExpression>();
-        var code = new VariationalCode(model, vectors, lanes: false, p, body);
+        var code = new VariationalCode(model, vectors, lanes, p, body);
         code.Emit(i => Element(y, i), t, (i, value) => LinqExpression.Assign(Element(dy, i), value));
         body.Add(LinqExpression.Empty());
-        return LinqExpression.Lambda<VectorField>(LinqExpression.Block(code.Variables, body), y, p, t, dy).Compile();
+        return LinqExpression.Lambda<TDelegate>(LinqExpression.Block(code.Variables, body), y, p, t, dy).Compile();
     }
 
     private static TDelegate BuildStep<TDelegate>(Model model, int vectors, IntegratorMethod method, bool lanes)
@@ -136,8 +148,6 @@ internal static class FlowKernels
 
     private static ParameterExpression[] Locals(VariationalCode code, int count) =>
         Enumerable.Range(0, count).Select(_ => code.Local()).ToArray();
-
-    private static ParameterExpression Array(string name) => LinqExpression.Parameter(typeof(double[]), name);
 
     /// <summary>Entry <paramref name="index"/> of an array parameter, as an assignable expression (shared by the generated steps).</summary>
     internal static LinqExpression Element(ParameterExpression array, int index) => LinqExpression.ArrayAccess(array, LinqExpression.Constant(index));

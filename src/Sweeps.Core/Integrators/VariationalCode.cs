@@ -95,7 +95,8 @@ internal sealed class VariationalCode
     public void Emit(Func<int, LinqExpression> input, LinqExpression time, Func<int, LinqExpression, LinqExpression> output, Func<int, LinqExpression, LinqExpression>? jacobianOutput = null)
     {
         var n = model.Dimension;
-        var now = model.UsesTime && Lanes ? Local(Broadcast(time)) : time;
+        // Lanes read the time from a local: one broadcast of a shared time, or the lanes' own times (adaptive steps).
+        var now = model.UsesTime && Lanes ? Local(time.Type == Type ? time : Broadcast(time)) : time;
         NodeEmitter? emitter = null;
         emitter = new NodeEmitter(
             Type,

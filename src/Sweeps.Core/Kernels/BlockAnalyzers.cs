@@ -9,7 +9,8 @@ public static class BlockAnalyzers
 {
     /// <summary>
     /// A block analyzer for one-variable maps (<see cref="MapBlockAnalyzer"/>), maps of several variables
-    /// (<see cref="MapLaneAnalyzer"/>) or fixed-step flows (<see cref="FlowBlockAnalyzer"/>); null where only the
+    /// (<see cref="MapLaneAnalyzer"/>), fixed-step flows (<see cref="FlowBlockAnalyzer"/>) or Dormand–Prince flows
+    /// (<see cref="DormandPrinceBlockAnalyzer"/>); null where only the
     /// scalar analyzers apply.
     /// </summary>
     /// <param name="model">The model.</param>
@@ -27,6 +28,11 @@ public static class BlockAnalyzers
         if (MapLaneAnalyzer.Supports(model, settings))
         {
             return new MapLaneAnalyzer(model, settings, lean);
+        }
+
+        if (DormandPrinceBlockAnalyzer.Supports(model, integrator))
+        {
+            return new DormandPrinceBlockAnalyzer(model, settings, integrator, section ?? new SectionSettings());
         }
 
         return FlowBlockAnalyzer.Supports(model, integrator) ? new FlowBlockAnalyzer(model, settings, integrator, section ?? new SectionSettings()) : null;

@@ -21,6 +21,14 @@ internal static class LaneMath
         return (int)~inside.ExtractMostSignificantBits() & 0xF;
     }
 
+    /// <summary>
+    /// <see cref="Math.Max(double, double)"/> on each lane for values that are not −0: NaN where either value is NaN,
+    /// the larger otherwise (the bare vector maximum may return the other operand when one is NaN).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Vector256<double> Maximum(Vector256<double> a, Vector256<double> b) =>
+        Vector256.ConditionalSelect(Vector256.Equals(a, a) & Vector256.Equals(b, b), Vector256.Max(a, b), a + b);
+
     /// <summary>A running product split into mantissa (returned) and binary exponent (added to <paramref name="exponent"/>): <see cref="MapAnalyzer.Split"/> on each lane, exact.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Vector256<double> Split(Vector256<double> value, ref Vector256<long> exponent)

@@ -14,14 +14,14 @@ namespace Sweeps.Core.Tests.Kernels;
 /// </summary>
 public sealed class FlowBlockAnalyzerTests
 {
-    private static readonly Model Lorenz = Maps.Build(ModelKind.Flow, ["x", "y", "z"], ["sigma", "rho", "beta"], "sigma*(y - x)", "x*(rho - z) - y", "x*y - beta*z");
+    internal static readonly Model Lorenz = Maps.Build(ModelKind.Flow, ["x", "y", "z"], ["sigma", "rho", "beta"], "sigma*(y - x)", "x*(rho - z) - y", "x*y - beta*z");
 
     // A forced hardening oscillator (stroboscopic samples at the forcing period).
-    private static readonly Model Forced = Build(
+    internal static readonly Model Forced = Build(
         new ModelSource(ModelKind.Flow, ["x", "v"], ["delta", "gamma"], ["v", "-delta*v - x - x^3 + gamma*cos(1.2*t)"]) { ForcingPeriod = 2 * Math.PI / 1.2 });
 
     // Blows up in finite time for a > 0 (x' = a·x²), settles for a < 0: escapes and step failures among live lanes.
-    private static readonly Model Runaway = Maps.Build(ModelKind.Flow, ["x", "w"], ["a"], "a*x^2 - 0.1*x", "-w + sin(x)");
+    internal static readonly Model Runaway = Maps.Build(ModelKind.Flow, ["x", "w"], ["a"], "a*x^2 - 0.1*x", "-w + sin(x)");
 
     [Fact]
     public void Lorenz_GivesTheScalarResults_WithSectionsAndEveryLyapunovMode()
@@ -60,13 +60,19 @@ public sealed class FlowBlockAnalyzerTests
         Compare(Lorenz, new AnalysisSettings(Transient: 5, Measure: 10, ZeroBand: 5e-3), budget, new SectionSettings(), 3, k => [10, 28 + k, 8.0 / 3], [1, 1, 1], outcomes: 1);
     }
 
-    private static void Compare(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section, int points, Func<int, double[]> parametersOf, double[] start, int outcomes = 2)
+    /// <summary>
+    /// Runs the points through the block analyzer chosen for the integrator (of type <typeparamref name="TBlock"/>) block
+    /// by block, and each point through the scalar analyzer; the results must agree bit for bit.
+    /// </summary>
+    internal static void Compare<TBlock>(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section, int points, Func<int, double[]> parametersOf, double[] start, int outcomes = 2)
+        where TBlock : IBlockAnalyzer
     {
-        var block = new FlowBlockAnalyzer(model, settings, integrator, section);
+        var block = Assert.IsType<TBlock>(BlockAnalyzers.Create(model, settings, integrator, section));
         var reference = new FlowAnalyzer(model, settings, integrator, section);
-        var size = ((IBlockAnalyzer)block).BlockSize;
+        var size = block.BlockSize;
         var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
         var regimes = new HashSet<Regime>();
+        var reasons = new HashSet<string?>();
         for (var first = 0; first < points; first += size)
         {
             var count = Math.Min(size, points - first);
@@ -82,13 +88,17 @@ public sealed class FlowBlockAnalyzerTests
                 var expected = reference.Analyze(initial[i], parameters[i]);
                 SameResult.Check(expected, results[i], $"{string.Join(", ", parameters[i])}, {settings.Lyapunov}, {integrator.Method}");
                 regimes.Add(expected.Regime);
+                reasons.Add(expected.Reason);
             }
         }
 
         // The cases are chosen to mix outcomes inside one block; a block of one outcome would test less.
-        Assert.True(regimes.Count >= outcomes, $"only {string.Join(", ", regimes)}");
+        Assert.True(regimes.Count >= outcomes, $"only {string.Join(", ", regimes)}: {string.Join("; ", reasons)}");
     }
 
-    private static Model Build(ModelSource source) =>
+    private static void Compare(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section, int points, Func<int, double[]> parametersOf, double[] start, int outcomes = 2) =>
+        Compare<FlowBlockAnalyzer>(model, settings, integrator, section, points, parametersOf, start, outcomes);
+
+    internal static Model Build(ModelSource source) =>
         Model.TryBuild(source, out var model, out var errors) ? model! : throw new InvalidOperationException(string.Join("; ", errors));
 }

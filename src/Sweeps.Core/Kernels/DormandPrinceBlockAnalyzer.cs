@@ -1,0 +1,593 @@
+using System.Numerics;
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Integrators;
+using Sweeps.Core.Models;
+
+namespace Sweeps.Core.Kernels;
+
+/// <summary>
+/// Analyses flow points integrated with adaptive Dormand–Prince steps four at a time: one generated trial step
+/// (<see cref="DormandPrinceKernel.Lanes"/>) advances the four points' states and tangent vectors side by side in
+/// <see cref="Vector256{T}"/> lanes, each lane with its own time and step size. Every lane keeps the scalar
+/// stepper's memory (step size, first-same-as-last slope, step count) and goes through <see cref="FlowAnalyzer"/>'s
+/// loop on its own clock: a trial is accepted or rejected lane by lane, and what follows an accepted step — budget,
+/// escape, stroboscopic sample or section crossing on the step's dense output, the QR step, the middle and the end
+/// of the measurement — is done for that lane with the scalar code through a <see cref="FlowTrack"/> per lane. So
+/// each point's result equals the scalar analyzer's bit for bit (tested). The lanes share the phases: a lane that
+/// has finished its transient waits for the others before the measurement starts; a stopped lane runs on unused.
+/// </summary>
+public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
+{
+    private const int Width = 4;
+    private const int AllLanes = (1 << Width) - 1;
+
+    private readonly AnalysisSettings settings;
+    private readonly IntegratorSettings integrator;
+    private readonly SectionSettings section;
+    private readonly FlowAnalyzer scalar;
+    private readonly int n;
+    private readonly int vectors;
+    private readonly int size;
+    private readonly int parameterCount;
+    private readonly double forcingPeriod;
+    private readonly DormandPrinceLaneStages plainStages;
+    private readonly DormandPrinceLaneStages tangentStages;
+    private readonly LaneField plainSlope;
+    private readonly LaneField tangentSlope;
+    private readonly OdeSystem tangent;
+    private readonly FlowTrack[] tracks = new FlowTrack[Width];
+    private readonly PointResult?[] stopped = new PointResult?[Width];
+    private readonly double[] frame;
+    private readonly Vector256<double>[] p;
+    private readonly Vector256<double>[] y;
+    private readonly Vector256<double>[] start;
+    private readonly Vector256<double>[] k1, k2, k3, k4, k5, k6, k7, next, fresh;
+    private readonly Vector256<double>[] saved;
+    private readonly Vector256<double>[] norms;
+    private readonly double[] lane;
+    private readonly Segment segment;
+
+    // Each lane's clock and stepper memory: time, the step size to try next, the trial step, the time before the last
+    // accepted step, the limit of the current step, accepted steps.
+    private readonly double[] time = new double[Width];
+    private readonly double[] stepSize = new double[Width];
+    private readonly double[] trial = new double[Width];
+    private readonly double[] before = new double[Width];
+    private readonly double[] limit = new double[Width];
+    private readonly long[] steps = new long[Width];
+
+    // The transient's running mean of the section variable; the measurement's bookkeeping.
+    private readonly double[] meanSum = new double[Width];
+    private readonly double[] meanTime = new double[Width];
+    private readonly double[] level = new double[Width];
+    private readonly double[] measureStart = new double[Width];
+    private readonly double[] measureEnd = new double[Width];
+    private readonly double[] measureHalf = new double[Width];
+    private readonly double[] strobe = new double[Width];
+    private readonly double[] lastQr = new double[Width];
+    private readonly double[] halfTime = new double[Width];
+    private readonly double[] trace = new double[Width];
+    private readonly double[] traceBefore = new double[Width];
+    private readonly double[] gBefore = new double[Width];
+    private readonly long[] crossings = new long[Width];
+
+    // Lanes as bits: points not yet stopped, lanes stepping in the current phase, lanes whose start slope k1 is known.
+    private int live;
+    private int active;
+    private int slopeKnown;
+
+    public DormandPrinceBlockAnalyzer(Model model, AnalysisSettings settings, IntegratorSettings integrator, SectionSettings section)
+    {
+        if (!Supports(model, integrator))
+        {
+            throw new ArgumentException("this block analyzer takes flows integrated with Dormand–Prince", nameof(integrator));
+        }
+
+        this.settings = settings;
+        this.integrator = integrator;
+        this.section = section;
+        scalar = new FlowAnalyzer(model, settings, integrator, section);
+        n = model.Dimension;
+        vectors = settings.Lyapunov switch
+        {
+            LyapunovMode.Spectrum => n,
+            LyapunovMode.Largest => 1,
+            _ => 0,
+        };
+        size = n * (1 + vectors);
+        parameterCount = model.Parameters.Count;
+        forcingPeriod = model.UsesTime ? model.Source.ForcingPeriod ?? throw new ArgumentException("a flow that uses t needs a forcing period") : 0;
+        plainStages = DormandPrinceKernel.Lanes(model, 0);
+        tangentStages = DormandPrinceKernel.Lanes(model, vectors);
+        plainSlope = FlowKernels.LaneDerivative(model, 0);
+        tangentSlope = FlowKernels.LaneDerivative(model, vectors);
+        tangent = new OdeSystem(model, vectors);
+        for (var j = 0; j < Width; j++)
+        {
+            tracks[j] = new FlowTrack(model, settings, section, vectors, forcingPeriod);
+        }
+
+        frame = TangentFrame.Initial(n, vectors);
+        p = new Vector256<double>[Math.Max(1, model.Parameters.Count)];
+        Vector256<double>[] Buffer() => new Vector256<double>[size];
+        (y, start, fresh, next) = (Buffer(), Buffer(), Buffer(), Buffer());
+        (k1, k2, k3, k4, k5, k6, k7) = (Buffer(), Buffer(), Buffer(), Buffer(), Buffer(), Buffer(), Buffer());
+        saved = new Vector256<double>[Math.Max(1, n * vectors)];
+        norms = new Vector256<double>[Math.Max(1, vectors)];
+        lane = new double[size];
+        segment = new Segment(n);
+    }
+
+    int IBlockAnalyzer.BlockSize => Width;
+
+    IPointAnalyzer IBlockAnalyzer.Scalar => scalar;
+
+    /// <summary>Whether the block analyzer applies: a flow integrated with Dormand–Prince, on a machine with 256-bit vectors.</summary>
+    public static bool Supports(Model model, IntegratorSettings integrator) =>
+        model.Kind == ModelKind.Flow && integrator.Method == IntegratorMethod.Dopri5 && Vector256.IsHardwareAccelerated;
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results)
+    {
+        Load(initial, parameters, count);
+        Transient();
+        if (live != 0)
+        {
+            Measure();
+        }
+
+        for (var j = 0; j < count; j++)
+        {
+            results[j] = stopped[j]!;
+        }
+    }
+
+    private void Load(double[][] initial, double[][] parameters, int count)
+    {
+        live = 0;
+        for (var j = 0; j < Width; j++)
+        {
+            // Spare lanes repeat the first point and are never reported.
+            var source = j < count ? j : 0;
+            tracks[j].Reset(parameters[source]);
+            stopped[j] = null;
+            initial[source].AsSpan(0, n).CopyTo(tracks[j].State);
+            live |= j < count ? 1 << j : 0;
+        }
+
+        for (var i = 0; i < p.Length && i < parameterCount; i++)
+        {
+            p[i] = Vector256.Create(Lane(parameters, count, 0, i), Lane(parameters, count, 1, i), Lane(parameters, count, 2, i), Lane(parameters, count, 3, i));
+        }
+
+        for (var i = 0; i < n; i++)
+        {
+            y[i] = Vector256.Create(tracks[0].State[i], tracks[1].State[i], tracks[2].State[i], tracks[3].State[i]);
+        }
+
+        for (var j = 0; j < Width; j++)
+        {
+            if (Live(j) && !PointResult.Bounded(tracks[j].State, settings.Escape))
+            {
+                Stop(j, tracks[j].Divergent(0, 0));
+            }
+        }
+    }
+
+    private static double Lane(double[][] values, int count, int j, int i) => values[j < count ? j : 0][i];
+
+    /// <summary>The transient on the states alone (the first n entries); leaves each lane's section level.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Transient()
+    {
+        var transientEnd = (double)settings.Transient;
+        var variable = section.Variable;
+        for (var j = 0; j < Width; j++)
+        {
+            (time[j], steps[j], stepSize[j], limit[j], meanSum[j], meanTime[j]) = (0, 0, integrator.Step, transientEnd, 0, 0);
+        }
+
+        active = transientEnd > 0 ? live : 0;
+        slopeKnown = 0;
+        while (active != 0)
+        {
+            var accepted = Trial(plainStages, plainSlope, n);
+            var escaped = LaneMath.Escaped(y, n, settings.Escape);
+            foreach (var j in Lanes(accepted))
+            {
+                if (++steps[j] > integrator.MaxSteps)
+                {
+                    Extract(y, j, n, tracks[j].State);
+                    Stop(j, tracks[j].BudgetUsed(integrator.MaxSteps, time[j]));
+                    continue;
+                }
+
+                if ((escaped & (1 << j)) != 0)
+                {
+                    Extract(y, j, n, tracks[j].State);
+                    Stop(j, tracks[j].Divergent(steps[j], time[j]));
+                    continue;
+                }
+
+                if (before[j] >= transientEnd / 2)
+                {
+                    meanSum[j] += y[variable].GetElement(j) * (time[j] - before[j]);
+                    meanTime[j] += time[j] - before[j];
+                }
+
+                if (!(time[j] < transientEnd))
+                {
+                    active &= ~(1 << j);
+                }
+            }
+        }
+
+        foreach (var j in Lanes(live))
+        {
+            level[j] = section.Level ?? (meanTime[j] > 0 ? meanSum[j] / meanTime[j] : y[variable].GetElement(j));
+        }
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Measure()
+    {
+        var forced = forcingPeriod > 0;
+        for (var i = 0; i < n * vectors; i++)
+        {
+            y[n + i] = Vector256.Create(frame[i]);
+        }
+
+        var variable = section.Variable;
+        active = 0;
+        foreach (var j in Lanes(live))
+        {
+            var t = time[j];
+            measureStart[j] = t;
+            measureEnd[j] = t + settings.Measure;
+            measureHalf[j] = t + (settings.Measure / 2.0);
+            halfTime[j] = double.NaN;
+            strobe[j] = forced ? Math.Floor((t / forcingPeriod) + 1e-9) + 1 : 0;
+            lastQr[j] = t;
+            (trace[j], crossings[j], stepSize[j]) = (0, 0, integrator.Step);
+            traceBefore[j] = vectors == n ? Divergence(j, t) : 0;
+            gBefore[j] = y[variable].GetElement(j) - level[j];
+            active |= t < measureEnd[j] ? 1 << j : 0;
+        }
+
+        slopeKnown = 0;
+        while (active != 0)
+        {
+            foreach (var j in Lanes(active))
+            {
+                // Steps end exactly on the next forcing period and on the middle of the measurement.
+                var (end, half) = (measureEnd[j], measureHalf[j]);
+                limit[j] = forced ? Math.Min(end, strobe[j] * forcingPeriod) : end;
+                if (double.IsNaN(halfTime[j]) && time[j] < half)
+                {
+                    limit[j] = Math.Min(limit[j], half);
+                }
+            }
+
+            var accepted = Trial(tangentStages, tangentSlope, size);
+            var escaped = LaneMath.Escaped(y, n, settings.Escape);
+            var (qr, halves) = (0, 0);
+            foreach (var j in Lanes(accepted))
+            {
+                var t = time[j];
+                if (++steps[j] > integrator.MaxSteps)
+                {
+                    // The scalar analyzer's state still holds the step's start.
+                    Extract(start, j, n, tracks[j].State);
+                    Stop(j, tracks[j].BudgetUsed(integrator.MaxSteps, t));
+                    continue;
+                }
+
+                Extract(y, j, n, tracks[j].State);
+                if ((escaped & (1 << j)) != 0)
+                {
+                    Stop(j, tracks[j].Divergent(steps[j], t));
+                    continue;
+                }
+
+                if (forced)
+                {
+                    if (t == strobe[j] * forcingPeriod)
+                    {
+                        tracks[j].Record(tracks[j].State, t);
+                        crossings[j]++;
+                        strobe[j]++;
+                    }
+                }
+                else
+                {
+                    var gNow = y[variable].GetElement(j) - level[j];
+                    if (tracks[j].Crosses(gBefore[j], gNow))
+                    {
+                        segment.Load(this, j);
+                        tracks[j].Record(tracks[j].Locate(segment, gBefore[j], gNow, level[j], out var when), when);
+                        crossings[j]++;
+                    }
+
+                    gBefore[j] = gNow;
+                }
+
+                var halfReached = double.IsNaN(halfTime[j]) && t >= measureHalf[j];
+                if (vectors > 0 && (t - lastQr[j] >= FlowAnalyzer.QrInterval || halfReached || t >= measureEnd[j]))
+                {
+                    qr |= 1 << j;
+                }
+
+                halves |= halfReached ? 1 << j : 0;
+            }
+
+            if (qr != 0)
+            {
+                Orthonormalize(qr);
+            }
+
+            foreach (var j in Lanes(accepted & live))
+            {
+                var t = time[j];
+                if ((qr & (1 << j)) != 0)
+                {
+                    // The divergence for the Σλ check, by the trapezoid rule between re-orthonormalisations (as the scalar analyzer).
+                    slopeKnown &= ~(1 << j);
+                    if (vectors == n)
+                    {
+                        var traceNow = Divergence(j, t);
+                        trace[j] += 0.5 * (traceBefore[j] + traceNow) * (t - lastQr[j]);
+                        traceBefore[j] = traceNow;
+                    }
+
+                    lastQr[j] = t;
+                }
+
+                if ((halves & (1 << j)) != 0)
+                {
+                    halfTime[j] = t - measureStart[j];
+                    tracks[j].MarkHalf();
+                }
+
+                if (!(t < measureEnd[j]))
+                {
+                    Extract(y, j, n, tracks[j].State);
+                    Stop(j, tracks[j].Classify(measureStart[j], measureEnd[j], halfTime[j], trace[j], crossings[j]));
+                }
+            }
+        }
+    }
+
+    /// <summary>
+    /// One trial step of every active lane, as <see cref="DormandPrinceStepper.Advance"/> takes them one after another:
+    /// the start slope where it is not known, the step never past the lane's limit, the step size shrunk after a
+    /// rejected or non-finite trial and grown after an accepted one. Lanes whose step cannot be taken stop. Returns the
+    /// lanes that accepted their step; those have their new time, state and start slope (the old one in k7).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private int Trial(DormandPrinceLaneStages stages, LaneField derivative, int count)
+    {
+        var stale = active & ~slopeKnown;
+        if (stale != 0)
+        {
+            derivative(y, p, Vector256.Create(time[0], time[1], time[2], time[3]), fresh);
+            var mask = Mask(stale);
+            for (var i = 0; i < count; i++)
+            {
+                k1[i] = Vector256.ConditionalSelect(mask, fresh[i], k1[i]);
+            }
+
+            slopeKnown |= stale;
+        }
+
+        for (var j = 0; j < Width; j++)
+        {
+            trial[j] = 0;
+            if ((active & (1 << j)) == 0)
+            {
+                continue;
+            }
+
+            var t = time[j];
+            var h = Math.Min(stepSize[j], limit[j] - t);
+            if (!(h > 0))
+            {
+                StepFailed(j, "no time left to step");
+            }
+            else if (h < integrator.MinStep && limit[j] - t > integrator.MinStep)
+            {
+                StepFailed(j, DormandPrinceStepper.MinStepFailure(integrator.MinStep, t));
+            }
+            else
+            {
+                trial[j] = h;
+            }
+        }
+
+        if (active == 0)
+        {
+            return 0;
+        }
+
+        var errors = stages(
+            y, p, Vector256.Create(time[0], time[1], time[2], time[3]), Vector256.Create(trial[0], trial[1], trial[2], trial[3]), k1, k2, k3, k4, k5, k6, k7, next, integrator.AbsoluteTolerance, integrator.RelativeTolerance);
+        var accepted = 0;
+        foreach (var j in Lanes(active))
+        {
+            var (error, h) = (errors.GetElement(j), trial[j]);
+            if (!double.IsFinite(error))
+            {
+                // As the scalar stepper: a non-finite trial shrinks hard and tries again.
+                stepSize[j] = h * 0.1;
+            }
+            else if (error <= 1.0)
+            {
+                accepted |= 1 << j;
+                before[j] = time[j];
+                time[j] = h == limit[j] - time[j] ? limit[j] : time[j] + h;
+                var grow = error == 0 ? 5.0 : Math.Min(5.0, 0.9 * Math.Pow(error, -0.2));
+                stepSize[j] = Math.Min(integrator.MaxStep, h * grow);
+            }
+            else
+            {
+                stepSize[j] = h * Math.Max(0.2, 0.9 * Math.Pow(error, -0.2));
+            }
+        }
+
+        if (accepted != 0)
+        {
+            // Accepted lanes move on; their start and end slopes trade places (first same as last).
+            var mask = Mask(accepted);
+            for (var i = 0; i < count; i++)
+            {
+                var slope = k1[i];
+                start[i] = Vector256.ConditionalSelect(mask, y[i], start[i]);
+                y[i] = Vector256.ConditionalSelect(mask, next[i], y[i]);
+                k1[i] = Vector256.ConditionalSelect(mask, k7[i], slope);
+                k7[i] = Vector256.ConditionalSelect(mask, slope, k7[i]);
+            }
+        }
+
+        return accepted;
+    }
+
+    /// <summary>A lane whose step cannot be taken stops: blown up or unresolved, from its current state (<see cref="FlowTrack.StepFailed"/>).</summary>
+    private void StepFailed(int j, string failure)
+    {
+        Extract(y, j, n, tracks[j].State);
+        Extract(y, j, n, lane);
+        Stop(j, tracks[j].StepFailed(lane.AsSpan(0, n), failure, steps[j], time[j]));
+    }
+
+    /// <summary>
+    /// The QR step on all lanes at once (<see cref="LaneOrthonormalizer"/>), kept for the lanes in
+    /// <paramref name="due"/>; the others get their vectors back. A lane where a norm is zero or not finite is done
+    /// again from its saved vectors by the scalar code, which handles both.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Orthonormalize(int due)
+    {
+        var tangents = n * vectors;
+        System.Array.Copy(y, n, saved, 0, tangents);
+        var unusual = LaneOrthonormalizer.Orthonormalize(y, n, n, vectors, norms);
+        var keep = Mask(AllLanes & ~due);
+        for (var i = 0; i < tangents; i++)
+        {
+            y[n + i] = Vector256.ConditionalSelect(keep, saved[i], y[n + i]);
+        }
+
+        foreach (var j in Lanes(due))
+        {
+            if ((unusual & (1 << j)) == 0)
+            {
+                for (var c = 0; c < vectors; c++)
+                {
+                    lane[c] = norms[c].GetElement(j);
+                }
+
+                tracks[j].AddNorms(lane.AsSpan(0, vectors));
+                continue;
+            }
+
+            Extract(y, j, n, lane);
+            Extract(saved, j, tangents, lane, n);
+            if (!tracks[j].Orthonormalize(lane.AsSpan(n, tangents)))
+            {
+                Stop(j, tracks[j].TangentFailed(time[j]));
+                continue;
+            }
+
+            for (var i = n; i < n + tangents; i++)
+            {
+                y[i] = y[i].WithElement(j, lane[i]);
+            }
+        }
+    }
+
+    private bool Live(int j) => (live & (1 << j)) != 0;
+
+    private void Stop(int j, PointResult result)
+    {
+        stopped[j] = result;
+        live &= ~(1 << j);
+        active &= ~(1 << j);
+    }
+
+    /// <summary>∇·f of lane <paramref name="j"/>'s state at time <paramref name="t"/>.</summary>
+    private double Divergence(int j, double t)
+    {
+        Extract(y, j, n, lane);
+        tangent.Parameters = tracks[j].Parameters;
+        return tangent.Divergence(t, lane);
+    }
+
+    /// <summary>All bits set in the lanes of <paramref name="lanes"/>, clear in the others.</summary>
+    private static Vector256<double> Mask(int lanes) =>
+        Vector256.Create((lanes & 1) != 0 ? -1L : 0, (lanes & 2) != 0 ? -1L : 0, (lanes & 4) != 0 ? -1L : 0, (lanes & 8) != 0 ? -1L : 0).AsDouble();
+
+    /// <summary>The lanes set in <paramref name="lanes"/>, lowest first.</summary>
+    private static LaneSet Lanes(int lanes) => new(lanes);
+
+    private static void Extract(Vector256<double>[] values, int j, int count, double[] into, int at = 0)
+    {
+        for (var i = 0; i < count; i++)
+        {
+            into[at + i] = values[i].GetElement(j);
+        }
+    }
+
+    /// <summary>The lanes of a bit set, enumerated without allocation.</summary>
+    private readonly struct LaneSet(int bits)
+    {
+        public Enumerator GetEnumerator() => new(bits);
+
+        public struct Enumerator(int bits)
+        {
+            private int rest = bits;
+
+            public int Current { get; private set; }
+
+            public bool MoveNext()
+            {
+                if (rest == 0)
+                {
+                    return false;
+                }
+
+                Current = BitOperations.TrailingZeroCount(rest);
+                rest &= rest - 1;
+                return true;
+            }
+        }
+    }
+
+    /// <summary>One lane's last accepted step as dense output: the Dormand–Prince continuous extension the scalar stepper interpolates on.</summary>
+    private sealed class Segment(int n) : IDenseOutput
+    {
+        private readonly double[] start = new double[n], end = new double[n], startSlope = new double[n], endSlope = new double[n];
+        private readonly double[] k3 = new double[n], k4 = new double[n], k5 = new double[n], k6 = new double[n];
+        private readonly DormandPrinceStepper.Dense dense = new(n);
+
+        public double StartTime { get; private set; }
+
+        public double EndTime { get; private set; }
+
+        public void Load(DormandPrinceBlockAnalyzer owner, int j)
+        {
+            // After acceptance the slopes have traded places: k7 holds the step's start slope, k1 its end slope.
+            Extract(owner.start, j, n, start);
+            Extract(owner.y, j, n, end);
+            Extract(owner.k7, j, n, startSlope);
+            Extract(owner.k1, j, n, endSlope);
+            Extract(owner.k3, j, n, k3);
+            Extract(owner.k4, j, n, k4);
+            Extract(owner.k5, j, n, k5);
+            Extract(owner.k6, j, n, k6);
+            (StartTime, EndTime) = (owner.before[j], owner.time[j]);
+            dense.Prepare(owner.trial[j], start, end, startSlope, k3, k4, k5, k6, endSlope);
+        }
+
+        public void Interpolate(double theta, double[] output, int count) => dense.Interpolate(theta, output, count);
+    }
+}
