@@ -65,8 +65,8 @@ public static class FunctionCatalog
 
     internal static MethodInfo Method(MathFunction function) => function switch
     {
-        MathFunction.Sin => Info(Math.Sin),
-        MathFunction.Cos => Info(Math.Cos),
+        MathFunction.Sin => Info(Trigonometry.Sin),
+        MathFunction.Cos => Info(Trigonometry.Cos),
         MathFunction.Tan => Info(Math.Tan),
         MathFunction.Asin => Info(Math.Asin),
         MathFunction.Acos => Info(Math.Acos),
@@ -92,8 +92,8 @@ public static class FunctionCatalog
     /// <summary>Evaluates a function on already evaluated arguments.</summary>
     public static double Apply(MathFunction function, double a, double b = double.NaN) => function switch
     {
-        MathFunction.Sin => Math.Sin(a),
-        MathFunction.Cos => Math.Cos(a),
+        MathFunction.Sin => Trigonometry.Sin(a),
+        MathFunction.Cos => Trigonometry.Cos(a),
         MathFunction.Tan => Math.Tan(a),
         MathFunction.Asin => Math.Asin(a),
         MathFunction.Acos => Math.Acos(a),
@@ -116,7 +116,18 @@ public static class FunctionCatalog
         _ => throw new ArgumentOutOfRangeException(nameof(function)),
     };
 
+    /// <summary>
+    /// The four-lane form of a catalog method, where one gives every lane the scalar method's bits from that lane's
+    /// value alone (sine and cosine); null for the others, which run lane by lane.
+    /// </summary>
+    internal static MethodInfo? LaneMethod(MethodInfo scalar) =>
+        scalar == Info(Trigonometry.Sin) ? LaneInfo(Trigonometry.Sin)
+        : scalar == Info(Trigonometry.Cos) ? LaneInfo(Trigonometry.Cos)
+        : null;
+
     private static MethodInfo Info(Func<double, double> f) => f.Method;
+
+    private static MethodInfo LaneInfo(Func<System.Runtime.Intrinsics.Vector256<double>, System.Runtime.Intrinsics.Vector256<double>> f) => f.Method;
 
     private static MethodInfo Info2(Func<double, double, double> f) => f.Method;
 }

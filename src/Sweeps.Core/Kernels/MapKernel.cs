@@ -222,9 +222,17 @@ internal sealed class MapKernel
         return emitter;
     }
 
-    /// <summary>A function with no exact vector form: the scalar method on each lane, reassembled.</summary>
+    /// <summary>
+    /// A function on four lanes: its vector form where the catalog has one with the scalar bits in every lane
+    /// (<see cref="FunctionCatalog.LaneMethod"/>), else the scalar method on each lane, reassembled.
+    /// </summary>
     internal static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
     {
+        if (FunctionCatalog.LaneMethod(method) is { } vectorForm)
+        {
+            return LinqExpression.Call(vectorForm, arguments);
+        }
+
         var values = arguments.Select(_ => emitter.Temporary()).ToArray();
         var steps = arguments.Select((a, i) => (LinqExpression)LinqExpression.Assign(values[i], a)).ToList();
         var lanes = Enumerable.Range(0, Width).Select(lane => (LinqExpression)LinqExpression.Call(
