@@ -26,7 +26,7 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
     private readonly AnalysisSettings settings;
     private readonly IntegratorSettings integrator;
     private readonly SectionSettings section;
-    private readonly FlowAnalyzer scalar;
+    private readonly Lazy<FlowAnalyzer> scalar;
     private readonly int n;
     private readonly int vectors;
     private readonly int size;
@@ -88,7 +88,8 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
         this.settings = settings;
         this.integrator = integrator;
         this.section = section;
-        scalar = new FlowAnalyzer(model, settings, integrator, section);
+        // Only for blocks that fail: built (and its scalar kernels compiled) when first needed.
+        scalar = new Lazy<FlowAnalyzer>(() => new FlowAnalyzer(model, settings, integrator, section));
         n = model.Dimension;
         vectors = settings.Lyapunov switch
         {
@@ -103,7 +104,7 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
         tangentStages = DormandPrinceKernel.Lanes(model, vectors);
         plainSlope = FlowKernels.LaneDerivative(model, 0);
         tangentSlope = FlowKernels.LaneDerivative(model, vectors);
-        tangent = new OdeSystem(model, vectors);
+        tangent = new OdeSystem(model, vectors, generated: false); // for the divergence alone, which needs no generated code
         for (var j = 0; j < Width; j++)
         {
             tracks[j] = new FlowTrack(model, settings, section, vectors, forcingPeriod);
@@ -122,7 +123,7 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
 
     int IBlockAnalyzer.BlockSize => Width;
 
-    IPointAnalyzer IBlockAnalyzer.Scalar => scalar;
+    IPointAnalyzer IBlockAnalyzer.Scalar => scalar.Value;
 
     /// <summary>Whether the block analyzer applies: a flow integrated with Dormand–Prince, on a machine with 256-bit vectors.</summary>
     public static bool Supports(Model model, IntegratorSettings integrator) =>

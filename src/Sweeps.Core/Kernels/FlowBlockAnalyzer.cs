@@ -24,7 +24,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     private readonly AnalysisSettings settings;
     private readonly IntegratorSettings integrator;
     private readonly SectionSettings section;
-    private readonly FlowAnalyzer scalar;
+    private readonly Lazy<FlowAnalyzer> scalar;
     private readonly int n;
     private readonly int vectors;
     private readonly int size;
@@ -60,7 +60,8 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         this.settings = settings;
         this.integrator = integrator;
         this.section = section;
-        scalar = new FlowAnalyzer(model, settings, integrator, section);
+        // Only for blocks that fail: built (and its scalar kernels compiled) when first needed.
+        scalar = new Lazy<FlowAnalyzer>(() => new FlowAnalyzer(model, settings, integrator, section));
         n = model.Dimension;
         vectors = settings.Lyapunov switch
         {
@@ -72,7 +73,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         forcingPeriod = model.UsesTime ? model.Source.ForcingPeriod ?? throw new ArgumentException("a flow that uses t needs a forcing period") : 0;
         plainStep = FlowKernels.Lanes(model, 0, integrator.Method);
         tangentStep = FlowKernels.Lanes(model, vectors, integrator.Method);
-        tangent = new OdeSystem(model, vectors);
+        tangent = new OdeSystem(model, vectors, generated: false); // for the divergence alone, which needs no generated code
         for (var j = 0; j < Width; j++)
         {
             tracks[j] = new FlowTrack(model, settings, section, vectors, forcingPeriod);
@@ -91,7 +92,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
 
     int IBlockAnalyzer.BlockSize => Width;
 
-    IPointAnalyzer IBlockAnalyzer.Scalar => scalar;
+    IPointAnalyzer IBlockAnalyzer.Scalar => scalar.Value;
 
     /// <summary>Whether the block analyzer applies: a flow with a fixed-step scheme, on a machine with 256-bit vectors.</summary>
     public static bool Supports(Model model, IntegratorSettings integrator) =>

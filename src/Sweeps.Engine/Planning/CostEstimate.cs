@@ -135,22 +135,26 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         while (warmUp.Elapsed.TotalSeconds < budget);
 
         // Four places along the grid, each timed five times (three for a quick estimate); the median of each (a block
-        // is short enough for one collection or a background compilation to multiply its time).
+        // is short enough for one collection or a background compilation to multiply its time). A quick estimate stops
+        // repeating once its time budget is spent: blocks of slow points (a flow's block takes 10–50 ms) are long enough
+        // for one timing each, and the run waits for the estimate before its first chunk.
         var total = 0.0;
         const int Blocks = 4;
+        var spent = Stopwatch.StartNew();
         for (var b = 0; b < Blocks; b++)
         {
             Fill(points * b / Blocks, lanes);
             var times = new double[quick ? 3 : 5];
-            for (var repeat = 0; repeat < times.Length; repeat++)
+            var taken = 0;
+            while (taken < times.Length && !(quick && taken > 0 && spent.Elapsed.TotalSeconds > QuickBudget))
             {
                 var clock = Stopwatch.StartNew();
                 block.Analyze(initial, parameters, lanes, results);
-                times[repeat] = clock.Elapsed.TotalSeconds;
+                times[taken++] = clock.Elapsed.TotalSeconds;
             }
 
-            Array.Sort(times);
-            total += times[times.Length / 2];
+            Array.Sort(times, 0, taken);
+            total += times[taken / 2];
         }
 
         var perPoint = total / (Blocks * lanes);
