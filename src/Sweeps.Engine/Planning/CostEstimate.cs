@@ -136,14 +136,16 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
 
         // Four places along the grid, each timed five times (three for a quick estimate); the median of each (a block
         // is short enough for one collection or a background compilation to multiply its time). A quick estimate stops
-        // repeating once its time budget is spent: blocks of slow points (a flow's block takes 10–50 ms) are long enough
-        // for one timing each, and the run waits for the estimate before its first chunk.
+        // once its time budget is spent, after two places at least: blocks of slow points (a flow's block takes 10–50
+        // ms) are long enough for one timing each, and the run waits for the estimate before its first chunk.
         var total = 0.0;
         const int Blocks = 4;
+        var places = 0;
         var spent = Stopwatch.StartNew();
-        for (var b = 0; b < Blocks; b++)
+        while (places < Blocks && !(quick && places >= 2 && spent.Elapsed.TotalSeconds > QuickBudget))
         {
-            Fill(points * b / Blocks, lanes);
+            // Places in the order 0, ½, ¼, ¾ of the grid, so that two of them already span it.
+            Fill(points * ((places * 2 % Blocks) + (places * 2 / Blocks)) / Blocks, lanes);
             var times = new double[quick ? 3 : 5];
             var taken = 0;
             while (taken < times.Length && !(quick && taken > 0 && spent.Elapsed.TotalSeconds > QuickBudget))
@@ -155,9 +157,10 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
 
             Array.Sort(times, 0, taken);
             total += times[taken / 2];
+            places++;
         }
 
-        var perPoint = total / (Blocks * lanes);
-        return new CostEstimate(Blocks * lanes, perPoint, perPoint * points);
+        var perPoint = total / (places * lanes);
+        return new CostEstimate(places * lanes, perPoint, perPoint * points);
     }
 }
