@@ -427,12 +427,11 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
                 accepted |= 1 << j;
                 before[j] = time[j];
                 time[j] = h == limit[j] - time[j] ? limit[j] : time[j] + h;
-                var grow = error == 0 ? 5.0 : Math.Min(5.0, 0.9 * Math.Pow(error, -0.2));
-                stepSize[j] = Math.Min(integrator.MaxStep, h * grow);
+                stepSize[j] = Math.Min(integrator.MaxStep, h * DormandPrinceStepper.Growth(error));
             }
             else
             {
-                stepSize[j] = h * Math.Max(0.2, 0.9 * Math.Pow(error, -0.2));
+                stepSize[j] = h * DormandPrinceStepper.Shrinkage(error);
             }
         }
 
