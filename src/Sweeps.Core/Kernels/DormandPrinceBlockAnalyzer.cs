@@ -353,11 +353,22 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
 
                 if (!(t < measureEnd[j]))
                 {
-                    Extract(y, j, n, tracks[j].State);
-                    Stop(j, tracks[j].Classify(measureStart[j], measureEnd[j], halfTime[j], trace[j], crossings[j]));
+                    Classify(j);
                 }
             }
         }
+
+        // Lanes whose measurement was empty from the start (no time to measure), as the scalar loop that never ran.
+        foreach (var j in Lanes(live))
+        {
+            Classify(j);
+        }
+    }
+
+    private void Classify(int j)
+    {
+        Extract(y, j, n, tracks[j].State);
+        Stop(j, tracks[j].Classify(measureStart[j], measureEnd[j], halfTime[j], trace[j], crossings[j]));
     }
 
     /// <summary>

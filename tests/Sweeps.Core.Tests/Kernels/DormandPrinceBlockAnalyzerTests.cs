@@ -42,6 +42,9 @@ public sealed class DormandPrinceBlockAnalyzerTests
         var settings = new AnalysisSettings(Transient: 60, Measure: 120, MaxPeriod: 8, Tolerance: 1e-6, Samples: 8, ZeroBand: 5e-3);
         Compare<DormandPrinceBlockAnalyzer>(Forced, settings, Adaptive, new SectionSettings(), 22, k => [0.05 + (0.1 * (k % 4)), 0.2 + (1.5 * (k / 4))], [0, 0]);
         Compare<DormandPrinceBlockAnalyzer>(Forced, settings with { Transient = 0, Lyapunov = LyapunovMode.Largest }, Adaptive, new SectionSettings(), 7, k => [0.3, 0.4 + (0.3 * k)], [0.5, 0], outcomes: 1);
+
+        // No time to measure (the analyzers themselves allow it; configs ask for at least two periods).
+        Compare<DormandPrinceBlockAnalyzer>(Forced, settings with { Measure = 0 }, Adaptive, new SectionSettings(), 3, k => [0.3, 0.4 + (0.3 * k)], [0.5, 0], outcomes: 1);
     }
 
     [Fact]
