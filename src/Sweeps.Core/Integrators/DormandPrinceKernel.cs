@@ -17,8 +17,8 @@ internal delegate double DormandPrinceStages(
 
 /// <summary>
 /// <see cref="DormandPrinceStages"/> for four points side by side, each with its own time and step: entry i of each
-/// array holds component i of the four points' values; returns the four error norms (NaN where a lane's is not
-/// finite). Every lane computes what the scalar delegate computes for its point, bit for bit.
+/// array holds component i of the four points' values; returns the four error norms. Every lane computes what the
+/// scalar delegate computes for its point, bit for bit (a NaN norm included).
 /// </summary>
 internal delegate Vector256<double> DormandPrinceLaneStages(
     Vector256<double>[] y,
