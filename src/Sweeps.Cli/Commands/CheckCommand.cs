@@ -18,7 +18,7 @@ internal static class CheckCommand
             var spec = SpecReader.Load(parse.GetRequiredValue(config));
             var model = Engine.Probing.ModelFactory.Build(spec);
             var estimate = CostEstimate.Measure(spec, model);
-            var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount);
+            var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount, estimate.BlockSize);
             DiskEstimate? disk = null;
             string? diskProblem = null;
             try

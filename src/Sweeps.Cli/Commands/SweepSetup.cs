@@ -31,7 +31,7 @@ internal sealed record SweepSetup(SweepSpec Spec, Model Model, string ConfigText
         }
 
         var estimate = CostEstimate.Measure(spec, model, quick: true);
-        var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers);
+        var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers, estimate.BlockSize);
         return new SweepSetup(spec, model, text, overrides, directory, plan.ChunkSize, estimate);
     }
 

@@ -8,6 +8,8 @@ namespace Sweeps.Engine.Planning;
 /// PostgreSQL) under 2% of the work. A chunk also holds at most <see cref="MaxChunk"/> points: its columns
 /// and the Parquet writer's buffers live in memory until the part is written, and at an eighth of a million
 /// rows two workers stay well under a gigabyte (measured: a 10^8-point map sweep, see docs/performance.md).
+/// Where points are analysed in blocks (lanes), a chunk holds whole blocks below the cap, so that no block but the
+/// grid's last runs with idle lanes.
 /// </summary>
 public sealed record ChunkPlan(long Points, long ChunkSize)
 {
@@ -18,24 +20,33 @@ public sealed record ChunkPlan(long Points, long ChunkSize)
 
     public long ChunkCount => (Points + ChunkSize - 1) / ChunkSize;
 
-    public static ChunkPlan For(long points, double secondsPerPoint, int workers)
+    public static ChunkPlan For(long points, double secondsPerPoint, int workers, int block = 1)
     {
         var perPoint = Math.Max(secondsPerPoint, 1e-9);
         var balanced = (points + (ChunksPerWorker * workers) - 1) / (ChunksPerWorker * workers);
         var size = Math.Min((long)(TargetSeconds / perPoint), balanced);
         size = Math.Max(size, (long)Math.Ceiling(MinSeconds / perPoint));
         size = Math.Clamp(size, 1, MaxChunk);
+        if (block > 1)
+        {
+            // Whole blocks, up to the next multiple; at the cap a chunk stays as it is (rounding down would add a chunk of
+            // a few points, and one part-filled block in thousands costs nothing).
+            var whole = (size + block - 1) / block * block;
+            size = whole <= MaxChunk ? whole : size;
+        }
+
         return new ChunkPlan(points, Math.Min(size, Math.Max(points, 1)));
     }
 
     /// <summary>
-    /// The plan for a spec: its [output] chunk_size if given, else one planned from the cost per point; for a
+    /// The plan for a spec: its [output] chunk_size if given, else one planned from the cost per point (in whole blocks of
+    /// <paramref name="block"/> points, the block analyzer's); for a
     /// continuation sweep rounded up to whole lines along the followed axis (a line is computed in order).
     /// </summary>
-    public static ChunkPlan Of(Specs.SweepSpec spec, double secondsPerPoint, int workers)
+    public static ChunkPlan Of(Specs.SweepSpec spec, double secondsPerPoint, int workers, int block = 1)
     {
         var points = spec.Grid.PointCount;
-        var plan = spec.ChunkSize is { } size ? Fixed(points, size) : For(points, secondsPerPoint, workers);
+        var plan = spec.ChunkSize is { } size ? Fixed(points, size) : For(points, secondsPerPoint, workers, block);
         var line = spec.Grid.LineLength;
         return line == 1 ? plan : plan with { ChunkSize = Math.Min((plan.ChunkSize + line - 1) / line * line, points) };
     }

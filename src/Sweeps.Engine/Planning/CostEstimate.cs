@@ -12,6 +12,9 @@ namespace Sweeps.Engine.Planning;
 /// </summary>
 public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, double TotalCpuSeconds)
 {
+    /// <summary>Points the analysis takes at a time: a block analyzer's lanes, else 1.</summary>
+    public int BlockSize { get; init; } = 1;
+
     public static CostEstimate Measure(SweepSpec spec, int samples = 12) => Measure(spec, ModelFactory.Build(spec), samples: samples);
 
     /// <summary>
@@ -161,6 +164,6 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         }
 
         var perPoint = total / (places * lanes);
-        return new CostEstimate(places * lanes, perPoint, perPoint * points);
+        return new CostEstimate(places * lanes, perPoint, perPoint * points) { BlockSize = size };
     }
 }
