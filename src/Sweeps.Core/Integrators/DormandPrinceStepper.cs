@@ -113,20 +113,14 @@ public sealed class DormandPrinceStepper : Stepper
                 Array.Copy(next, y, n);
                 (k1, k7) = (k7, k1);
                 Accepted++;
-                step = Math.Min(settings.MaxStep, h * Growth(error));
+                step = Math.Min(settings.MaxStep, h * StepControl.Growth(error));
                 return true;
             }
 
             Rejected++;
-            step = h * Shrinkage(error);
+            step = h * StepControl.Shrinkage(error);
         }
     }
-
-    /// <summary>The step factor after an accepted step of error norm <paramref name="error"/> ≤ 1: 0.9·error^(−1/5), at most 5.</summary>
-    internal static double Growth(double error) => error == 0 ? 5.0 : Math.Min(5.0, 0.9 * Math.Pow(error, -0.2));
-
-    /// <summary>The step factor after a rejected step of finite error norm <paramref name="error"/> &gt; 1: 0.9·error^(−1/5), at least 0.2.</summary>
-    internal static double Shrinkage(double error) => Math.Max(0.2, 0.9 * Math.Pow(error, -0.2));
 
     /// <summary>Why a step below the smallest allowed one cannot be taken.</summary>
     internal static string MinStepFailure(double minStep, double t) => $"step size fell below {minStep:g3} at t = {t:g6} (stiff or singular)";

@@ -374,7 +374,7 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
     /// <summary>
     /// One trial step of every active lane, as <see cref="DormandPrinceStepper.Advance"/> takes them one after another:
     /// the start slope where it is not known, the step never past the lane's limit, the step size shrunk after a
-    /// rejected or non-finite trial and grown after an accepted one. Lanes whose step cannot be taken stop. Returns the
+    /// rejected or non-finite trial and grown after an accepted one (<see cref="StepControl"/>, one root for all lanes). Lanes whose step cannot be taken stop. Returns the
     /// lanes that accepted their step; those have their new time, state and start slope (the old one in k7).
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -424,6 +424,7 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
 
         var errors = stages(
             y, p, Vector256.Create(time[0], time[1], time[2], time[3]), Vector256.Create(trial[0], trial[1], trial[2], trial[3]), k1, k2, k3, k4, k5, k6, k7, next, integrator.AbsoluteTolerance, integrator.RelativeTolerance);
+        var roots = StepControl.InverseFifthRoot(errors);
         var accepted = 0;
         foreach (var j in Lanes(active))
         {
@@ -438,11 +439,11 @@ public sealed class DormandPrinceBlockAnalyzer : IBlockAnalyzer
                 accepted |= 1 << j;
                 before[j] = time[j];
                 time[j] = h == limit[j] - time[j] ? limit[j] : time[j] + h;
-                stepSize[j] = Math.Min(integrator.MaxStep, h * DormandPrinceStepper.Growth(error));
+                stepSize[j] = Math.Min(integrator.MaxStep, h * StepControl.Growth(error, roots.GetElement(j)));
             }
             else
             {
-                stepSize[j] = h * DormandPrinceStepper.Shrinkage(error);
+                stepSize[j] = h * StepControl.Shrinkage(error, roots.GetElement(j));
             }
         }
 
