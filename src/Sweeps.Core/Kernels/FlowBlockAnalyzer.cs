@@ -82,7 +82,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         frame = TangentFrame.Initial(n, vectors);
         p = new Vector256<double>[Math.Max(1, model.Parameters.Count)];
         y = new Vector256<double>[size];
-        start = new Vector256<double>[size];
+        start = new Vector256<double>[n];
         slope = new Vector256<double>[size];
         lane = new double[size];
         saved = new Vector256<double>[Math.Max(1, n * vectors)];
@@ -331,7 +331,12 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
             return false;
         }
 
-        System.Array.Copy(y, start, count);
+        // Only the states are ever read from the step's start (dense output, failures, the budget): n entries, not all.
+        for (var i = 0; i < n; i++)
+        {
+            start[i] = y[i];
+        }
+
         stepStart = t;
         step(y, p, t, h, slope);
         t = limit - t <= integrator.Step ? limit : t + h;
