@@ -18,6 +18,15 @@ internal static class Tolerance
     /// <summary>Two floating-point evaluations of one formula by different routes (relative).</summary>
     public const double Rounding = 1e-12;
 
+    /// <summary>A routine of Sweeps' own against the platform's, which rounds correctly in practice (units in the last place).</summary>
+    public const long PlatformUlps = 1;
+
+    /// <summary>The step-size rule's own fifth root against the platform's power (relative): a heuristic needs no more.</summary>
+    public const double StepRule = 1e-10;
+
+    /// <summary>How many representable doubles lie between two of the same sign.</summary>
+    public static long Ulps(double a, double b) => Math.Abs(BitConverter.DoubleToInt64Bits(a) - BitConverter.DoubleToInt64Bits(b));
+
     public static void Close(double expected, double actual, double absolute, string? what = null)
     {
         Assert.True(
