@@ -69,9 +69,7 @@ public static class Trigonometry
             return Math.Sin(x);
         }
 
-        var quadrant = Reduce(a, out var head, out var tail);
-        var value = (quadrant & 1) == 0 ? SineKernel(head, tail) : CosineKernel(head, tail);
-        value = (quadrant & 2) == 0 ? value : -value;
+        var value = Shifted(a, 0);
         return double.IsNegative(x) ? -value : value;
     }
 
@@ -79,14 +77,7 @@ public static class Trigonometry
     public static double Cos(double x)
     {
         var a = Math.Abs(x);
-        if (!(a <= Limit))
-        {
-            return Math.Cos(x);
-        }
-
-        var quadrant = Reduce(a, out var head, out var tail);
-        var value = (quadrant & 1) == 0 ? CosineKernel(head, tail) : SineKernel(head, tail);
-        return ((quadrant + 1) & 2) == 0 ? value : -value;
+        return a <= Limit ? Shifted(a, 1) : Math.Cos(x);
     }
 
     /// <summary><see cref="Sin(double)"/> of each lane.</summary>
@@ -94,11 +85,8 @@ public static class Trigonometry
     public static Vector256<double> Sin(Vector256<double> x)
     {
         var a = Vector256.Abs(x);
-        var quadrant = Reduce(a, out var head, out var tail);
-        var even = Vector256.Equals(quadrant & Vector256<long>.One, Vector256<long>.Zero).AsDouble();
-        var value = Vector256.ConditionalSelect(even, SineKernel(head, tail), CosineKernel(head, tail));
-        var flip = ((Vector256.ShiftLeft(quadrant, 62) ^ x.AsInt64()) & Vector256.Create(long.MinValue)).AsDouble();
-        return Exceptional(x, a, value ^ flip, Math.Sin);
+        var sign = (x.AsInt64() & Vector256.Create(long.MinValue)).AsDouble();
+        return Exceptional(x, a, Shifted(a, Vector256<long>.Zero) ^ sign, Math.Sin);
     }
 
     /// <summary><see cref="Cos(double)"/> of each lane.</summary>
@@ -106,11 +94,29 @@ public static class Trigonometry
     public static Vector256<double> Cos(Vector256<double> x)
     {
         var a = Vector256.Abs(x);
-        var quadrant = Reduce(a, out var head, out var tail);
+        return Exceptional(x, a, Shifted(a, Vector256<long>.One), Math.Cos);
+    }
+
+    /// <summary>
+    /// sin(a + offset·π/2) for 0 ≤ a ≤ <see cref="Limit"/> — the cosine is the sine a quadrant on: the quadrant's low bit
+    /// picks the kernel, its second bit the sign.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static double Shifted(double a, int offset)
+    {
+        var quadrant = Reduce(a, out var head, out var tail) + offset;
+        var value = (quadrant & 1) == 0 ? SineKernel(head, tail) : CosineKernel(head, tail);
+        return (quadrant & 2) == 0 ? value : -value;
+    }
+
+    /// <summary><see cref="Shifted(double, int)"/> of each lane (lanes beyond the limit give any value).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static Vector256<double> Shifted(Vector256<double> a, Vector256<long> offset)
+    {
+        var quadrant = Reduce(a, out var head, out var tail) + offset;
         var even = Vector256.Equals(quadrant & Vector256<long>.One, Vector256<long>.Zero).AsDouble();
-        var value = Vector256.ConditionalSelect(even, CosineKernel(head, tail), SineKernel(head, tail));
-        var flip = (Vector256.ShiftLeft(quadrant + Vector256<long>.One, 62) & Vector256.Create(long.MinValue)).AsDouble();
-        return Exceptional(x, a, value ^ flip, Math.Cos);
+        var value = Vector256.ConditionalSelect(even, SineKernel(head, tail), CosineKernel(head, tail));
+        return value ^ (Vector256.ShiftLeft(quadrant, 62) & Vector256.Create(long.MinValue)).AsDouble();
     }
 
     /// <summary>Lanes beyond <see cref="Limit"/> or not finite, from the platform's routine; the others as computed.</summary>

@@ -22,7 +22,7 @@ public sealed partial class DormandPrinceBlockAnalyzer
         if (stale != 0)
         {
             derivative(y, p, Vector256.Create(time[0], time[1], time[2], time[3]), fresh);
-            var mask = Mask(stale);
+            var mask = LaneMath.Mask(stale);
             for (var i = 0; i < count; i++)
             {
                 k1[i] = Vector256.ConditionalSelect(mask, fresh[i], k1[i]);
@@ -87,15 +87,20 @@ public sealed partial class DormandPrinceBlockAnalyzer
 
         if (accepted != 0)
         {
-            // Accepted lanes move on; their start and end slopes trade places (first same as last).
-            var mask = Mask(accepted);
+            // Accepted lanes move on; their start and end slopes trade places (first same as last). Of the step's start
+            // and start slope only the states are ever read again (dense output, budget); the next trial writes k7 anew.
+            var mask = LaneMath.Mask(accepted);
             for (var i = 0; i < count; i++)
             {
                 var slope = k1[i];
-                start[i] = Vector256.ConditionalSelect(mask, y[i], start[i]);
-                y[i] = Vector256.ConditionalSelect(mask, next[i], y[i]);
                 k1[i] = Vector256.ConditionalSelect(mask, k7[i], slope);
-                k7[i] = Vector256.ConditionalSelect(mask, slope, k7[i]);
+                if (i < n)
+                {
+                    start[i] = Vector256.ConditionalSelect(mask, y[i], start[i]);
+                    k7[i] = Vector256.ConditionalSelect(mask, slope, k7[i]);
+                }
+
+                y[i] = Vector256.ConditionalSelect(mask, next[i], y[i]);
             }
         }
 
@@ -106,8 +111,7 @@ public sealed partial class DormandPrinceBlockAnalyzer
     private void StepFailed(int j, string failure)
     {
         Extract(y, j, n, tracks[j].State);
-        Extract(y, j, n, lane);
-        Stop(j, tracks[j].StepFailed(lane.AsSpan(0, n), failure, steps[j], time[j]));
+        Stop(j, tracks[j].StepFailed(tracks[j].State, failure, steps[j], time[j]));
     }
 
     /// <summary>
@@ -121,7 +125,7 @@ public sealed partial class DormandPrinceBlockAnalyzer
         var tangents = n * vectors;
         System.Array.Copy(y, n, saved, 0, tangents);
         var unusual = LaneOrthonormalizer.Orthonormalize(y, n, n, vectors, norms);
-        var keep = Mask(AllLanes & ~due);
+        var keep = LaneMath.Mask(AllLanes & ~due);
         for (var i = 0; i < tangents; i++)
         {
             y[n + i] = Vector256.ConditionalSelect(keep, saved[i], y[n + i]);
@@ -171,10 +175,6 @@ public sealed partial class DormandPrinceBlockAnalyzer
         tangent.Parameters = tracks[j].Parameters;
         return tangent.Divergence(t, lane);
     }
-
-    /// <summary>All bits set in the lanes of <paramref name="lanes"/>, clear in the others.</summary>
-    private static Vector256<double> Mask(int lanes) =>
-        Vector256.Create((lanes & 1) != 0 ? -1L : 0, (lanes & 2) != 0 ? -1L : 0, (lanes & 4) != 0 ? -1L : 0, (lanes & 8) != 0 ? -1L : 0).AsDouble();
 
     /// <summary>The lanes set in <paramref name="lanes"/>, lowest first.</summary>
     private static LaneSet Lanes(int lanes) => new(lanes);

@@ -112,7 +112,10 @@ public sealed partial class DormandPrinceBlockAnalyzer : IBlockAnalyzer
         frame = TangentFrame.Initial(n, vectors);
         p = new Vector256<double>[Math.Max(1, model.Parameters.Count)];
         Vector256<double>[] Buffer() => new Vector256<double>[size];
-        (y, start, fresh, next) = (Buffer(), Buffer(), Buffer(), Buffer());
+        (y, fresh, next) = (Buffer(), Buffer(), Buffer());
+
+        // Only the states are read from a step's start (the dense output, the budget).
+        start = new Vector256<double>[n];
         (k1, k2, k3, k4, k5, k6, k7) = (Buffer(), Buffer(), Buffer(), Buffer(), Buffer(), Buffer(), Buffer());
         saved = new Vector256<double>[Math.Max(1, n * vectors)];
         norms = new Vector256<double>[Math.Max(1, vectors)];

@@ -29,6 +29,10 @@ internal static class LaneMath
     public static Vector256<double> Maximum(Vector256<double> a, Vector256<double> b) =>
         Vector256.ConditionalSelect(Vector256.Equals(a, a) & Vector256.Equals(b, b), Vector256.Max(a, b), a + b);
 
+    /// <summary>All bits set in the lanes of <paramref name="lanes"/> (bits 0–3), clear in the others.</summary>
+    public static Vector256<double> Mask(int lanes) =>
+        Vector256.Create((lanes & 1) != 0 ? -1L : 0, (lanes & 2) != 0 ? -1L : 0, (lanes & 4) != 0 ? -1L : 0, (lanes & 8) != 0 ? -1L : 0).AsDouble();
+
     /// <summary>A running product split into mantissa (returned) and binary exponent (added to <paramref name="exponent"/>): <see cref="MapAnalyzer.Split"/> on each lane, exact.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Vector256<double> Split(Vector256<double> value, ref Vector256<long> exponent)
