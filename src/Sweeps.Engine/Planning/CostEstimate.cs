@@ -145,10 +145,16 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         const int Blocks = 4;
         var places = 0;
         var spent = Stopwatch.StartNew();
-        while (places < Blocks && !(quick && places >= 2 && spent.Elapsed.TotalSeconds > QuickBudget))
+
+        // The places in the points' spread order (both ends first), so that two of them already span the grid.
+        foreach (var place in SpreadOrder(Blocks))
         {
-            // Places in the order 0, ½, ¼, ¾ of the grid, so that two of them already span it.
-            Fill(points * ((places * 2 % Blocks) + (places * 2 / Blocks)) / Blocks, lanes);
+            if (quick && places >= 2 && spent.Elapsed.TotalSeconds > QuickBudget)
+            {
+                break;
+            }
+
+            Fill(points * place / Blocks, lanes);
             var times = new double[quick ? 3 : 5];
             var taken = 0;
             while (taken < times.Length && !(quick && taken > 0 && spent.Elapsed.TotalSeconds > QuickBudget))
