@@ -8,7 +8,8 @@ namespace Sweeps.Benchmarks;
 
 /// <summary>
 /// Analyses every point of a config's grid with the core analyzer on N threads (contiguous ranges,
-/// one analyzer per thread) and prints points/s: the yardstick for the queue and Parquet overhead.
+/// one analyzer per thread) and prints points/s — and when each thread finished, to see an uneven split: the yardstick
+/// for the queue and Parquet overhead.
 /// </summary>
 internal static class DirectLoop
 {
@@ -18,6 +19,7 @@ internal static class DirectLoop
         var model = ModelFactory.Build(spec);
         var points = spec.Grid.PointCount;
         var checksums = new double[workers];
+        var busy = new double[workers];
         var clock = Stopwatch.StartNew();
         var threads = Enumerable.Range(0, workers).Select(w => new Thread(() =>
         {
@@ -56,11 +58,12 @@ internal static class DirectLoop
             }
 
             checksums[w] = sum;
+            busy[w] = clock.Elapsed.TotalSeconds;
         })).ToList();
         threads.ForEach(t => t.Start());
         threads.ForEach(t => t.Join());
         var seconds = clock.Elapsed.TotalSeconds;
         Console.WriteLine(FormattableString.Invariant(
-            $"direct {points} points {seconds:F2} s {points / seconds:F0} points/s checksum {checksums.Sum():G6} collections {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} allocated {GC.GetTotalAllocatedBytes() / 1048576} MiB paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s"));
+            $"direct {points} points {seconds:F2} s {points / seconds:F0} points/s checksum {checksums.Sum():G6} collections {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} allocated {GC.GetTotalAllocatedBytes() / 1048576} MiB paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s threads done at {string.Join(" ", busy.Select(b => b.ToString("F2", System.Globalization.CultureInfo.InvariantCulture)))} s"));
     }
 }
