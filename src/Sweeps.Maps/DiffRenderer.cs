@@ -12,9 +12,9 @@ public static class DiffRenderer
     public static readonly Color RegimeChanged = Color.FromHex("#1A1A1A");
 
     public static byte[] Render(RunDirectory run, RunDiff diff, IReadOnlyDictionary<string, double> slices, string title, int width = 1000, int height = 700) =>
-        Build(run, diff, slices, title).GetImageBytes(width, height, ImageFormat.Png);
+        Build(run, diff, slices, title, width, height).GetImageBytes(width, height, ImageFormat.Png);
 
-    internal static Plot Build(RunDirectory run, RunDiff diff, IReadOnlyDictionary<string, double> slices, string title)
+    internal static Plot Build(RunDirectory run, RunDiff diff, IReadOnlyDictionary<string, double> slices, string title, int width = 1000, int height = 700)
     {
         FontSetup.EnsureRegistered();
         var table = diff.After;
@@ -26,16 +26,21 @@ public static class DiffRenderer
         var ny = plane.Free.Count == 2 ? (int)plane.Free[1].Count : 1;
         var (x0, x1) = x.Range();
         var (y0, y1) = plane.Free.Count == 2 ? new AxisScale(plane.Free[1]).Range() : (0.0, 1.0);
-        using var bitmap = new SKBitmap(nx, ny);
-        bitmap.Erase(MapRenderer.ToSkia(Palette.Unknown));
+        // A pixel standing for several grid cells shows the most important change among them.
+        var raster = new CellRaster(nx, ny);
+        raster.Register(Unchanged);
+        raster.Register(PeriodChanged);
+        raster.Register(RegimeChanged);
         for (var k = 0; k < plane.Rows.Count; k++)
         {
             var row = plane.Rows[k];
             var color = !changed.Contains(row) ? Unchanged
                 : diff.Before.Regime[before[table.Point[row]]] != table.Regime[row] ? RegimeChanged : PeriodChanged;
             var cell = plane.Cells[k];
-            bitmap.SetPixel((int)cell[0], plane.Free.Count == 2 ? ny - 1 - (int)cell[1] : 0, MapRenderer.ToSkia(color));
+            raster.Paint((int)cell[0], plane.Free.Count == 2 ? ny - 1 - (int)cell[1] : 0, color);
         }
+
+        using var bitmap = raster.ToBitmap(Math.Max(MapRenderer.MostPixels, width), Math.Max(MapRenderer.MostPixels, height), Palette.Unknown, CellRaster.Merge.MostImportant);
 
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;

@@ -14,6 +14,13 @@ public static class MapRenderer
 {
     private const int DensityRows = 500;
 
+    /// <summary>
+    /// The most pixels a picture of cells gets along an axis (more when the image asked for is wider or taller): a
+    /// grid beyond it is drawn with several cells to a pixel (<see cref="CellRaster"/>), which loses nothing the image
+    /// can show.
+    /// </summary>
+    internal const int MostPixels = 2048;
+
     /// <param name="levels">Refinement levels 1, 2, … of the run (their tables), drawn at the finest resolution; not used for attractor colours.</param>
     public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
         Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
@@ -36,14 +43,15 @@ public static class MapRenderer
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
         var subtitle = plane.Description.Length > 0 ? $" ({plane.Description})" : "";
+        var most = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
         if (plane.Free.Count == 2)
         {
-            DrawPlane(plot, table, plane, request.Color);
+            DrawPlane(plot, table, plane, request.Color, most);
             plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
         }
         else
         {
-            DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0]);
+            DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0], most.Item1);
             plot.Title($"{title}: attractor samples{subtitle}");
         }
 
@@ -64,7 +72,7 @@ public static class MapRenderer
     /// <summary>The strip colouring of a bifurcation diagram: regimes unless periods or attractors were asked for.</summary>
     private static ColorMode StripMode(ColorMode mode) => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
 
-    private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode)
+    private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode, (int Columns, int Rows) most)
     {
         var (x, y) = (new AxisScale(plane.Free[0]), new AxisScale(plane.Free[1]));
         var (nx, ny) = ((int)plane.Free[0].Count, (int)plane.Free[1].Count);
@@ -88,7 +96,7 @@ public static class MapRenderer
             }
 
             var limit = Limit(table, plane);
-            var heatmap = plot.Add.Heatmap(values);
+            var heatmap = plot.Add.Heatmap(Shrink(values, most.Rows, most.Columns, limit));
             heatmap.Colormap = Palette.Exponents;
             heatmap.ManualRange = new ScottPlot.Range(-limit, limit);
             heatmap.Extent = new CoordinateRect(x0, x1, y0, y1);
@@ -99,14 +107,14 @@ public static class MapRenderer
         }
         else
         {
-            using var bitmap = new SKBitmap(nx, ny);
-            bitmap.Erase(ToSkia(Palette.Unknown));
+            var raster = new CellRaster(nx, ny);
             for (var k = 0; k < plane.Rows.Count; k++)
             {
-                var color = ToSkia(CellColor(table, plane.Rows[k], mode));
-                Paint(plane, k, nx, ny, (i, j) => bitmap.SetPixel(i, ny - 1 - j, color));
+                var color = CellColor(table, plane.Rows[k], mode);
+                Paint(plane, k, nx, ny, (i, j) => raster.Paint(i, ny - 1 - j, color));
             }
 
+            using var bitmap = raster.ToBitmap(most.Columns, most.Rows, Palette.Unknown);
             var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
             image.AntiAlias = false;
             AddLegend(plot, table, plane.Rows, mode);
@@ -117,7 +125,7 @@ public static class MapRenderer
         ApplyTicks(plot.Axes.Left, y);
     }
 
-    private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable)
+    private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable, int most)
     {
         var x = new AxisScale(plane.Free[0]);
         var nx = (int)plane.Free[0].Count;
@@ -136,19 +144,20 @@ public static class MapRenderer
 
         // Density, not overplotted dots: count samples per cell, shade by log(1 + count).
         var columns = Math.Min(nx, 1200);
-        var (counts, most) = Density(plane, samples, columns, nx, low, high);
+        var (counts, densest) = Density(plane, samples, columns, nx, low, high);
         var (backCounts, backMost) = backward is null ? (null, 1) : Density(plane, backward, columns, nx, low, high);
-        using var density = new SKBitmap(columns, DensityRows);
+        var shades = new SKColor[DensityRows * columns];
         for (var r = 0; r < DensityRows; r++)
         {
             for (var c = 0; c < columns; c++)
             {
-                density.SetPixel(c, r, backCounts is null
-                    ? Grey(Shade(counts[r, c], most))
-                    : TwoBranches(Shade(counts[r, c], most), Shade(backCounts[r, c], backMost)));
+                shades[(r * columns) + c] = backCounts is null
+                    ? Grey(Shade(counts[r, c], densest))
+                    : TwoBranches(Shade(counts[r, c], densest), Shade(backCounts[r, c], backMost));
             }
         }
 
+        using var density = new SKBitmap(columns, DensityRows) { Pixels = shades };
         var densityImage = plot.Add.ImageRect(new Image(density), new CoordinateRect(x0, x1, low, high));
         densityImage.AntiAlias = false;
 
@@ -158,16 +167,16 @@ public static class MapRenderer
         if (table.Hysteresis is { } hysteresis)
         {
             var bandLow = stripLow - (0.05 * (high - low));
-            using var band = new SKBitmap(nx, 1);
-            band.Erase(ToSkia(Palette.Unknown));
+            var hysteretic = new CellRaster(nx, 1);
             for (var k = 0; k < plane.Rows.Count; k++)
             {
                 if (hysteresis[plane.Rows[k]])
                 {
-                    band.SetPixel((int)plane.Cells[k][0], 0, ToSkia(Palette.Hysteresis));
+                    hysteretic.Paint((int)plane.Cells[k][0], 0, Palette.Hysteresis);
                 }
             }
 
+            using var band = hysteretic.ToBitmap(most, 1, Palette.Unknown);
             var bandImage = plot.Add.ImageRect(new Image(band), new CoordinateRect(x0, x1, bandLow, stripLow - (0.01 * (high - low))));
             bandImage.AntiAlias = false;
             plot.Legend.ManualItems.Add(new LegendItem { LabelText = "forward sweep", FillColor = Palette.ForwardBranch, LineWidth = 0, MarkerSize = 0 });
@@ -175,14 +184,14 @@ public static class MapRenderer
             plot.Legend.ManualItems.Add(new LegendItem { LabelText = "hysteresis (lower strip)", FillColor = Palette.Hysteresis, LineWidth = 0, MarkerSize = 0 });
             stripLow = bandLow;
         }
-        using var strip = new SKBitmap(nx, 1);
-        strip.Erase(ToSkia(Palette.Unknown));
+        var classes = new CellRaster(nx, 1);
         for (var k = 0; k < plane.Rows.Count; k++)
         {
-            var color = ToSkia(CellColor(table, plane.Rows[k], StripMode(mode)));
-            Paint(plane, k, nx, 1, (i, _) => strip.SetPixel(i, 0, color));
+            var color = CellColor(table, plane.Rows[k], StripMode(mode));
+            Paint(plane, k, nx, 1, (i, _) => classes.Paint(i, 0, color));
         }
 
+        using var strip = classes.ToBitmap(most, 1, Palette.Unknown);
         var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
         stripImage.AntiAlias = false;
         AddLegend(plot, table, plane.Rows, StripMode(mode));
@@ -319,6 +328,45 @@ public static class MapRenderer
     {
         var finite = plane.Rows.Select(r => table.Lyapunov[r]).Where(double.IsFinite).Select(Math.Abs).Order().ToArray();
         return finite.Length == 0 ? 1 : Math.Max(1e-6, finite[(int)(0.95 * (finite.Length - 1))]);
+    }
+
+    /// <summary>
+    /// The exponents at most <paramref name="rows"/> × <paramref name="columns"/> cells: each the mean of the finite
+    /// values under it, clipped to ±<paramref name="limit"/> first (where the colours saturate anyway, so that one
+    /// superstable point does not paint its neighbours); NaN where there are none. Smaller grids come back as they are.
+    /// </summary>
+    internal static double[,] Shrink(double[,] values, int rows, int columns, double limit)
+    {
+        var (ny, nx) = (values.GetLength(0), values.GetLength(1));
+        if (ny <= rows && nx <= columns)
+        {
+            return values;
+        }
+
+        var (height, width) = (Math.Min(ny, rows), Math.Min(nx, columns));
+        var shrunk = new double[height, width];
+        for (var r = 0; r < height; r++)
+        {
+            for (var c = 0; c < width; c++)
+            {
+                var (sum, count) = (0.0, 0);
+                for (var j = CellRaster.Start(r, ny, height); j < CellRaster.Start(r + 1, ny, height); j++)
+                {
+                    for (var i = CellRaster.Start(c, nx, width); i < CellRaster.Start(c + 1, nx, width); i++)
+                    {
+                        if (!double.IsNaN(values[j, i]))
+                        {
+                            sum += Math.Clamp(values[j, i], -limit, limit);
+                            count++;
+                        }
+                    }
+                }
+
+                shrunk[r, c] = count == 0 ? double.NaN : sum / count;
+            }
+        }
+
+        return shrunk;
     }
 
     private static double Clip(double value) => double.IsNegativeInfinity(value) ? -1e300 : value;

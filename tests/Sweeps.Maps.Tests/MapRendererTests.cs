@@ -75,6 +75,26 @@ public sealed class MapRendererTests : IDisposable
         Assert.Equal(121, strip);
     }
 
+    // Exact: the fixed point 1 − 1/r is stable for r < 3, the 2-cycle for 3 < r < 1 + √6. A grid of 6 001 points is
+    // wider than any picture: the strip then has a pixel for several points, each showing the class most of them have.
+    [Fact]
+    public async Task BifurcationDiagram_OfAGridWiderThanThePicture_KeepsTheClassesInPlace()
+    {
+        var run = await TestRuns.CreateAsync(folder, TestRuns.Logistic("r = { from = 2.8, to = 3.2, steps = 6001 }"), chunkSize: 3000);
+        var table = await RunTable.ReadAsync(run, samples: true);
+        var plot = MapRenderer.Build(run, table, new MapRequest(ColorMode.Regime, new Dictionary<string, double>()), "logistic");
+        using var image = Decode(plot.GetImageBytes(1000, 700, ImageFormat.Png));
+
+        // The strip lies 2–8 % of the sample range below the lowest sample (which is 3 % below the data).
+        var finite = table.Samples!.SelectMany(s => s).Where(double.IsFinite).ToArray();
+        var span = finite.Max() - finite.Min();
+        var (low, high) = (finite.Min() - (0.03 * span), finite.Max() + (0.03 * span));
+        var y = low - (0.05 * (high - low));
+        AssertColor(image, plot.GetPixel(new Coordinates(2.9, y)), Palette.ForRegime("fixed-point"));
+        AssertColor(image, plot.GetPixel(new Coordinates(3.1, y)), Palette.ForRegime("periodic"));
+        Assert.All(plot.GetPlottables().OfType<ScottPlot.Plottables.ImageRect>(), i => Assert.True(i.Image!.Width <= MapRenderer.MostPixels, $"an image {i.Image.Width} pixels wide"));
+    }
+
     // Exact: the odd cubic map x' = a·x − x³ has the stable fixed points ±√(a − 1) for 1 < a < 2, and orbits from
     // (0, 1] stay positive (from [−1, 0) negative). A basin picture over (a, x0) therefore shows two attractors per
     // value of a, and the same attractor keeps its colour in every cell that reaches it.
