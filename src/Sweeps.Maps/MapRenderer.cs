@@ -21,6 +21,13 @@ public static class MapRenderer
     /// </summary>
     internal const int MostPixels = 2048;
 
+    /// <summary>
+    /// Whether drawing <paramref name="request"/> reads the attractor samples: only a bifurcation diagram (one axis left
+    /// free) does — a regime map of a large run is read without them, a fraction of the memory and time.
+    /// </summary>
+    public static bool DrawsSamples(Grid grid, MapRequest request) =>
+        grid.Axes.Count(a => a.Count > 1 && !request.Slices.ContainsKey(a.Name)) == 1;
+
     /// <param name="levels">Refinement levels 1, 2, … of the run (their tables), drawn at the finest resolution; not used for attractor colours.</param>
     public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
         Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);

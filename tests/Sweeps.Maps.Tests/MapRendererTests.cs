@@ -165,6 +165,17 @@ public sealed class MapRendererTests : IDisposable
         AssertColor(refinedImage, refined.GetPixel(new Coordinates(3.35, 1)), Palette.ForPeriod(2));
     }
 
+    [Fact]
+    public void DrawsSamples_OnlyForABifurcationDiagram()
+    {
+        // Samples are read only when one axis is left free: two free axes make a regime map, which never reads them.
+        var spec = Engine.Config.SpecReader.Parse(TestRuns.Logistic("r = { from = 2.6, to = 3.6, steps = 11 }\nx = { from = 0.2, to = 0.8, steps = 3 }"), "test.toml");
+        Assert.False(MapRenderer.DrawsSamples(spec.Grid, new MapRequest(ColorMode.Regime, new Dictionary<string, double>())));
+        Assert.True(MapRenderer.DrawsSamples(spec.Grid, new MapRequest(ColorMode.Regime, new Dictionary<string, double> { ["x"] = 0.5 })));
+        var line = Engine.Config.SpecReader.Parse(TestRuns.Logistic("r = { from = 2.6, to = 3.6, steps = 11 }"), "test.toml");
+        Assert.True(MapRenderer.DrawsSamples(line.Grid, new MapRequest(ColorMode.Period, new Dictionary<string, double>())));
+    }
+
     private static void Tolerance(double expected, double actual) =>
         Assert.True(Math.Abs(expected - actual) <= 1e-9, $"expected {expected:R}, got {actual:R}");
 

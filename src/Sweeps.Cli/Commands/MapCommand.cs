@@ -42,11 +42,12 @@ internal static class MapCommand
 
             var request = new MapRequest(mode, MapSlices.Parse(parse.GetValue(slice) ?? []), w, h);
             var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
-            var table = await RunTable.ReadAsync(run, samples: true, attractors: mode == ColorMode.Attractor, token);
+            var samples = MapRenderer.DrawsSamples(run.LoadSpec().Grid, request);
+            var table = await RunTable.ReadAsync(run, samples, attractors: mode == ColorMode.Attractor, token);
             var levels = new List<RunTable>();
             for (var level = 1; level <= run.FinishedLevels(); level++)
             {
-                levels.Add(await RunTable.ReadLevelAsync(run, level, samples: true, token));
+                levels.Add(await RunTable.ReadLevelAsync(run, level, samples, token));
             }
 
             byte[] png;
