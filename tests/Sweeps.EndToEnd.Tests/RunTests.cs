@@ -175,8 +175,10 @@ public sealed class RunTests
     [Fact]
     public async Task Run_StopsCleanlyOnInterrupt_KeepingFinishedPartsOnly()
     {
+        // Ten times the long grid: the interrupt (a `kill` process, slow to start on a busy machine) must arrive while
+        // chunks are still queued — with 60 chunks of about a second in all, a loaded CI host once let the run finish first.
         using var temp = new TempFolder();
-        var config = temp.Write("stock.toml", LongConfig);
+        var config = temp.Write("stock.toml", LongConfig.Replace("steps = 24000", "steps = 240000", StringComparison.Ordinal));
         var parts = Path.Combine(temp.Path, "stopped", "parts");
         using var process = SweepsProcess.Start(temp.Path, "run", config, "--out", "stopped", "--workers", "2");
         var error = process.StandardError.ReadToEndAsync();
@@ -197,7 +199,7 @@ public sealed class RunTests
         Assert.Contains("run the same command again to resume", await error);
         Assert.Empty(Directory.GetFiles(parts, "*.tmp-*"));
         var kept = Directory.GetFiles(parts, "*.parquet");
-        Assert.InRange(kept.Length, 2, 59);
+        Assert.InRange(kept.Length, 2, 599);
         Assert.All(kept, part => Assert.Equal(400, IndependentReader.ReadRunFile(part)));
 
         // One start per point: no attractor parts (they would repeat the rows).
