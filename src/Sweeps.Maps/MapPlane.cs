@@ -90,22 +90,29 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
                 : $"the grid has {free.Count} free axes ({string.Join(", ", free.Select(a => grid.Axes[a].Name))}); choose a plane with --slice NAME=VALUE");
         }
 
-        var rows = new List<int>();
-        var cells = new List<long[]>();
+        var rows = new List<int>(table.Count);
+        var cells = new List<long[]>(table.Count);
         var indices = new long[grid.Axes.Count];
+        var drawn = Enumerable.Range(0, grid.Axes.Count).Select(a => free.Contains(a) || grid.Axes[a].Count == 1).ToArray();
         for (var row = 0; row < table.Count; row++)
         {
             grid.Indices(table.Point[row], indices);
             var onPlane = true;
             for (var a = 0; a < indices.Length && onPlane; a++)
             {
-                onPlane = free.Contains(a) || grid.Axes[a].Count == 1 || indices[a] == fixedIndex[a];
+                onPlane = drawn[a] || indices[a] == fixedIndex[a];
             }
 
             if (onPlane)
             {
                 rows.Add(row);
-                cells.Add(free.Select(a => indices[a]).ToArray());
+                var cell = new long[free.Count];
+                for (var f = 0; f < cell.Length; f++)
+                {
+                    cell[f] = indices[free[f]];
+                }
+
+                cells.Add(cell);
             }
         }
 

@@ -139,8 +139,21 @@ public static class MapRenderer
         var (x0, x1) = x.Range();
         var samples = table.Samples ?? throw new InvalidOperationException("samples were not read");
         var backward = table.BackwardSamples;
-        var finite = plane.Rows.SelectMany(r => backward is null ? samples[r] : samples[r].Concat(backward[r])).Where(double.IsFinite).ToArray();
-        var (low, high) = finite.Length == 0 ? (-1.0, 1.0) : (finite.Min(), finite.Max());
+        var (low, high) = (double.PositiveInfinity, double.NegativeInfinity);
+        foreach (var row in plane.Rows)
+        {
+            (low, high) = Bounds(samples[row], low, high);
+            if (backward is not null)
+            {
+                (low, high) = Bounds(backward[row], low, high);
+            }
+        }
+
+        if (low > high)
+        {
+            (low, high) = (-1.0, 1.0);
+        }
+
         if (high - low < 1e-12)
         {
             (low, high) = (low - 0.5, high + 0.5);
@@ -225,7 +238,21 @@ public static class MapRenderer
         }
     }
 
-    private static (int[,] Counts, int Most) Density(MapPlane plane, double[][] samples, int columns, int nx, double low, double high)
+    /// <summary>The finite values' range widened to take <paramref name="values"/> in.</summary>
+    private static (double Low, double High) Bounds(ReadOnlySpan<double> values, double low, double high)
+    {
+        foreach (var value in values)
+        {
+            if (double.IsFinite(value))
+            {
+                (low, high) = (Math.Min(low, value), Math.Max(high, value));
+            }
+        }
+
+        return (low, high);
+    }
+
+    private static (int[,] Counts, int Most) Density(MapPlane plane, RowValues samples, int columns, int nx, double low, double high)
     {
         var counts = new int[DensityRows, columns];
         var most = 1;

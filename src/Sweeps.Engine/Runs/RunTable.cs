@@ -11,8 +11,8 @@ namespace Sweeps.Engine.Runs;
 public sealed class RunTable
 {
     private RunTable(
-        long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, double[][]? samples,
-        AttractorLabels? attractors = null, bool[]? hysteresis = null, double[][]? backwardSamples = null)
+        long[] point, double[][] axes, string[] regime, int[] period, double[] lyapunov, RowValues? samples,
+        AttractorLabels? attractors = null, bool[]? hysteresis = null, RowValues? backwardSamples = null)
     {
         Hysteresis = hysteresis;
         BackwardSamples = backwardSamples;
@@ -40,13 +40,13 @@ public sealed class RunTable
     public double[] Lyapunov { get; }
 
     /// <summary>Per row, the samples of the first variable (null unless requested).</summary>
-    public double[][]? Samples { get; }
+    public RowValues? Samples { get; }
 
     /// <summary>Continuation sweeps: per row, whether the forward and backward branches differ (null otherwise).</summary>
     public bool[]? Hysteresis { get; }
 
     /// <summary>Continuation sweeps: per row, the backward branch's samples of the first variable (null unless requested).</summary>
-    public double[][]? BackwardSamples { get; }
+    public RowValues? BackwardSamples { get; }
 
     /// <summary>Per row, the grid-wide label of the point's attractor with the largest basin (null unless requested).</summary>
     public AttractorLabels? Attractors { get; }
@@ -69,10 +69,10 @@ public sealed class RunTable
         var regimes = new List<string>();
         var periods = new List<int>();
         var lyapunov = new List<double>();
-        var sampleRows = samples ? new List<double[]>() : null;
+        var sampleRows = samples ? new RowValues.Builder() : null;
         var branches = run.LoadSpec().Grid.Follow is not null;
         var hysteresis = branches ? new List<bool>() : null;
-        var backwardRows = branches && samples ? new List<double[]>() : null;
+        var backwardRows = branches && samples ? new RowValues.Builder() : null;
         var dimension = run.LoadSpec().Model.Variables.Count;
         var parts = Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
         foreach (var part in parts)
@@ -97,7 +97,7 @@ public sealed class RunTable
                 lyapunov.AddRange(await Read<double>(group, Field("lyapunov_1"), rows, token));
                 if (sampleRows is not null)
                 {
-                    sampleRows.AddRange(await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("samples", StringComparison.Ordinal)), dimension, token));
+                    await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("samples", StringComparison.Ordinal)), dimension, sampleRows, token);
                 }
 
                 if (hysteresis is not null)
@@ -107,23 +107,32 @@ public sealed class RunTable
 
                 if (backwardRows is not null)
                 {
-                    backwardRows.AddRange(await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("backward_samples", StringComparison.Ordinal)), dimension, token));
+                    await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("backward_samples", StringComparison.Ordinal)), dimension, backwardRows, token);
                 }
             }
         }
 
-        var order = Enumerable.Range(0, points.Count).OrderBy(i => points[i]).ToArray();
-        T[] Sorted<T>(List<T> list) => order.Select(i => list[i]).ToArray();
+        // Parts hold ascending point ranges and are read in order, so the rows are usually sorted already: then the
+        // columns are taken as they are (sorting 10^7 rows through an index permutation took seconds and twice the memory).
+        var sorted = true;
+        for (var i = 1; i < points.Count && sorted; i++)
+        {
+            sorted = points[i - 1] <= points[i];
+        }
+
+        var order = sorted ? null : Enumerable.Range(0, points.Count).OrderBy(i => points[i]).ToArray();
+        T[] Sorted<T>(List<T> list) => order is null ? list.ToArray() : order.Select(i => list[i]).ToArray();
+        RowValues Rows(RowValues.Builder rows) => order is null ? rows.Build() : rows.Build().Reorder(order);
         return new RunTable(
             Sorted(points),
             axes.Select(Sorted).ToArray(),
             Sorted(regimes),
             Sorted(periods),
             Sorted(lyapunov),
-            sampleRows is null ? null : Sorted(sampleRows),
+            sampleRows is null ? null : Rows(sampleRows),
             attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null,
             hysteresis is null ? null : Sorted(hysteresis),
-            backwardRows is null ? null : Sorted(backwardRows));
+            backwardRows is null ? null : Rows(backwardRows));
     }
 
     /// <summary>
@@ -133,7 +142,7 @@ public sealed class RunTable
     public static RunTable Merge(IReadOnlyList<RunTable> tables)
     {
         T[] All<T>(Func<RunTable, T[]> column) => tables.SelectMany(column).ToArray();
-        var samples = tables.All(t => t.Samples is not null) ? All(t => t.Samples!) : null;
+        var samples = tables.All(t => t.Samples is not null) ? RowValues.Concat(tables.Select(t => t.Samples!).ToArray()) : null;
         return new RunTable(
             All(t => t.Point),
             Enumerable.Range(0, tables[0].Axes.Length).Select(a => All(t => t.Axes[a])).ToArray(),
@@ -154,8 +163,11 @@ public sealed class RunTable
         return values;
     }
 
-    /// <summary>Rebuilds the list rows from the column's levels: repetition 0 starts a row, definition 2 is a value, 1 an empty list.</summary>
-    private static async Task<List<double[]>> ReadSamples(ParquetRowGroupReader group, DataField field, int dimension, CancellationToken token)
+    /// <summary>
+    /// Appends the list rows rebuilt from the column's levels — repetition 0 starts a row, definition 2 is a value, 1 an
+    /// empty list — keeping the first variable's value of each state.
+    /// </summary>
+    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, int dimension, RowValues.Builder rows, CancellationToken token)
     {
         // The chunk's value count counts level entries (values plus empty lists).
         var count = (int)group.GetMetadata(field)!.MetaData!.NumValues;
@@ -163,42 +175,23 @@ public sealed class RunTable
         var definitionBuffer = new int[count];
         var repetitionBuffer = new int[count];
         await group.ReadRawAsync<double>(field, valueBuffer, definitionBuffer, repetitionBuffer, token);
-        var values = valueBuffer.AsSpan();
-        var definitions = definitionBuffer.AsSpan();
-        var repetitions = repetitionBuffer.AsSpan();
-        var rows = new List<double[]>();
-        var current = new List<double>();
-        var next = 0;
-        for (var i = 0; i < definitions.Length; i++)
+        var (first, values) = (0, 0);
+        for (var i = 0; i <= count; i++)
         {
-            if (repetitions[i] == 0 && i > 0)
+            if (i == count || (repetitionBuffer[i] == 0 && i > 0))
             {
-                rows.Add(FirstVariable(current, dimension));
-                current.Clear();
+                if (i > 0)
+                {
+                    rows.Add(valueBuffer, first, (values - first) / dimension, dimension);
+                }
+
+                first = values;
             }
 
-            if (definitions[i] == 2)
+            if (i < count && definitionBuffer[i] == 2)
             {
-                current.Add(values[next++]);
+                values++;
             }
         }
-
-        if (definitions.Length > 0)
-        {
-            rows.Add(FirstVariable(current, dimension));
-        }
-
-        return rows;
-    }
-
-    private static double[] FirstVariable(List<double> states, int dimension)
-    {
-        var result = new double[states.Count / dimension];
-        for (var i = 0; i < result.Length; i++)
-        {
-            result[i] = states[i * dimension];
-        }
-
-        return result;
     }
 }
