@@ -36,8 +36,7 @@ public static class DiffRenderer
             var row = plane.Rows[k];
             var color = !changed.Contains(row) ? Unchanged
                 : diff.Before.Regime[before[table.Point[row]]] != table.Regime[row] ? RegimeChanged : PeriodChanged;
-            var cell = plane.Cells[k];
-            raster.Paint((int)cell[0], plane.Free.Count == 2 ? ny - 1 - (int)cell[1] : 0, color);
+            raster.Paint((int)plane.Cells[k, 0], plane.Free.Count == 2 ? ny - 1 - (int)plane.Cells[k, 1] : 0, color);
         }
 
         using var bitmap = raster.ToBitmap(Math.Max(MapRenderer.MostPixels, width), Math.Max(MapRenderer.MostPixels, height), Palette.Unknown, CellRaster.Merge.MostImportant);

@@ -14,7 +14,7 @@ namespace Sweeps.Maps;
 /// <param name="Description">The fixed axes, as text.</param>
 /// <param name="Half">For a refined plane, each row's half-width in cells along each drawn axis (a coarser point
 /// covers the cells around it up to halfway to its neighbours); null when every row is one cell.</param>
-internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int> Rows, IReadOnlyList<long[]> Cells, string Description, IReadOnlyList<long[]>? Half = null)
+internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int> Rows, CellIndices Cells, string Description, IReadOnlyList<long[]>? Half = null)
 {
     /// <summary>
     /// The plane of a run and its refinement levels together, on the finest level's lattice: tables[ℓ] holds
@@ -33,8 +33,9 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
             return axis.ValueAt(Nearest(axis, slices[name]));
         });
         var rows = new List<int>();
-        var cells = new List<long[]>();
+        var cells = new CellIndices(coarse.Free.Count);
         var halves = new List<long[]>();
+        var cell = new long[coarse.Free.Count];
         var offset = 0;
         for (var level = 0; level <= finest; level++)
         {
@@ -45,7 +46,12 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
             for (var k = 0; k < plane.Rows.Count; k++)
             {
                 rows.Add(offset + plane.Rows[k]);
-                cells.Add(plane.Cells[k].Select((c, a) => free[a] ? c * stretch : c).ToArray());
+                for (var a = 0; a < cell.Length; a++)
+                {
+                    cell[a] = free[a] ? plane.Cells[k, a] * stretch : plane.Cells[k, a];
+                }
+
+                cells.Add(cell);
                 halves.Add(free.Select(refined => refined ? (long)(stretch / 2) : 0L).ToArray());
             }
 
@@ -91,7 +97,8 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
         }
 
         var rows = new List<int>(table.Count);
-        var cells = new List<long[]>(table.Count);
+        var cells = new CellIndices(free.Count, table.Count);
+        var cell = new long[free.Count];
         var indices = new long[grid.Axes.Count];
         var drawn = Enumerable.Range(0, grid.Axes.Count).Select(a => free.Contains(a) || grid.Axes[a].Count == 1).ToArray();
         for (var row = 0; row < table.Count; row++)
@@ -106,7 +113,6 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
             if (onPlane)
             {
                 rows.Add(row);
-                var cell = new long[free.Count];
                 for (var f = 0; f < cell.Length; f++)
                 {
                     cell[f] = indices[free[f]];
@@ -131,5 +137,28 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
         }
 
         return best;
+    }
+}
+
+/// <summary>Each row's index along each drawn axis, kept flat (row k, axis a at k · axes + a): one array for all rows.</summary>
+internal sealed class CellIndices(int axes, int capacity = 16)
+{
+    private long[] values = new long[Math.Max(1, capacity) * Math.Max(1, axes)];
+
+    public int Axes { get; } = axes;
+
+    public int Count { get; private set; }
+
+    public long this[int row, int axis] => values[(row * Axes) + axis];
+
+    public void Add(ReadOnlySpan<long> cell)
+    {
+        if ((Count + 1) * Axes > values.Length)
+        {
+            Array.Resize(ref values, 2 * values.Length);
+        }
+
+        cell[..Axes].CopyTo(values.AsSpan(Count * Axes));
+        Count++;
     }
 }

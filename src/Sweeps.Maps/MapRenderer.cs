@@ -192,7 +192,7 @@ public static class MapRenderer
             {
                 if (hysteresis[plane.Rows[k]])
                 {
-                    hysteretic.Paint((int)plane.Cells[k][0], 0, Palette.Hysteresis);
+                    hysteretic.Paint((int)plane.Cells[k, 0], 0, Palette.Hysteresis);
                 }
             }
 
@@ -225,11 +225,11 @@ public static class MapRenderer
     /// </summary>
     private static void Paint(MapPlane plane, int k, int nx, int ny, Action<int, int> cell)
     {
-        var at = plane.Cells[k];
+        var x = plane.Cells[k, 0];
         var half = plane.Half?[k];
         var (hx, hy) = (half?[0] ?? 0, half is { Length: > 1 } ? half[1] : 0);
-        var y = at.Length > 1 ? at[1] : 0;
-        for (var i = Math.Max(0, at[0] - hx); i <= Math.Min(nx - 1, at[0] + hx); i++)
+        var y = plane.Cells.Axes > 1 ? plane.Cells[k, 1] : 0;
+        for (var i = Math.Max(0, x - hx); i <= Math.Min(nx - 1, x + hx); i++)
         {
             for (var j = Math.Max(0, y - hy); j <= Math.Min(ny - 1, y + hy); j++)
             {
@@ -258,7 +258,7 @@ public static class MapRenderer
         var most = 1;
         for (var k = 0; k < plane.Rows.Count; k++)
         {
-            var column = (int)(plane.Cells[k][0] * columns / nx);
+            var column = (int)(plane.Cells[k, 0] * columns / nx);
             foreach (var value in samples[plane.Rows[k]])
             {
                 if (double.IsFinite(value))

@@ -86,7 +86,7 @@ public sealed class MapRendererTests : IDisposable
         using var image = Decode(plot.GetImageBytes(1000, 700, ImageFormat.Png));
 
         // The strip lies 2–8 % of the sample range below the lowest sample (which is 3 % below the data).
-        var finite = table.Samples!.Values.Where(double.IsFinite).ToArray();
+        var finite = table.Samples!.All.ToArray().Where(double.IsFinite).ToArray();
         var span = finite.Max() - finite.Min();
         var (low, high) = (finite.Min() - (0.03 * span), finite.Max() + (0.03 * span));
         var y = low - (0.05 * (high - low));

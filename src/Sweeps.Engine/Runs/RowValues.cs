@@ -17,8 +17,11 @@ public sealed class RowValues
         (Values, Starts) = (values, starts);
     }
 
+    /// <summary>All rows' numbers, row after row (the array may go on beyond the last row's end; see <see cref="All"/>).</summary>
+    internal double[] Values { get; }
+
     /// <summary>All rows' numbers, row after row.</summary>
-    public double[] Values { get; }
+    public ReadOnlySpan<double> All => Values.AsSpan(0, Starts[^1]);
 
     /// <summary>Where each row starts in <see cref="Values"/>, and one more entry: where the last one ends.</summary>
     public int[] Starts { get; }
@@ -63,10 +66,10 @@ public sealed class RowValues
     }
 
     /// <summary>Collects rows as they are read (part by part), growing its arrays as a list would.</summary>
-    internal sealed class Builder
+    internal sealed class Builder(int rows = 1024, long capacity = 1024)
     {
-        private double[] values = new double[1024];
-        private int[] starts = new int[1025];
+        private double[] values = new double[Math.Max(1, capacity)];
+        private int[] starts = new int[Math.Max(1, rows) + 1];
 
         public int Count { get; private set; }
 
@@ -95,6 +98,7 @@ public sealed class RowValues
             Count++;
         }
 
-        public RowValues Build() => new(values[..End], starts[..(Count + 1)]);
+        /// <summary>The rows (the values array as it is, possibly longer than the rows use).</summary>
+        public RowValues Build() => new(values, starts.Length == Count + 1 ? starts : starts[..(Count + 1)]);
     }
 }

@@ -64,17 +64,40 @@ public sealed class RunTable
     private static async Task<RunTable> ReadAsync(RunDirectory run, string folder, bool samples, bool attractors, CancellationToken token)
     {
         var axisNames = SpecFingerprintAxes(run);
-        var points = new List<long>();
-        var axes = axisNames.Select(_ => new List<double>()).ToArray();
-        var regimes = new List<string>();
-        var periods = new List<int>();
-        var lyapunov = new List<double>();
-        var sampleRows = samples ? new RowValues.Builder() : null;
         var branches = run.LoadSpec().Grid.Follow is not null;
-        var hysteresis = branches ? new List<bool>() : null;
-        var backwardRows = branches && samples ? new RowValues.Builder() : null;
         var dimension = run.LoadSpec().Model.Variables.Count;
         var parts = Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
+
+        // The footers first: every column is then sized once and read straight into place (growing lists and copying
+        // them out cost more than the reading, for 10^7 rows).
+        var (total, levels, values) = (0L, 0L, 0L);
+        foreach (var part in parts)
+        {
+            await using var reader = await ParquetReader.CreateAsync(part, null, token);
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var group = reader.OpenRowGroupReader(g);
+                total += group.RowCount;
+                if (samples)
+                {
+                    var entries = group.GetMetadata(SamplesField(reader.Schema.DataFields, "samples"))!.MetaData!.NumValues;
+                    (levels, values) = (Math.Max(levels, entries), values + (entries / dimension));
+                }
+            }
+        }
+
+        var rows = checked((int)total);
+        var points = new long[rows];
+        var axes = axisNames.Select(_ => new double[rows]).ToArray();
+        var regimes = new string[rows];
+        var periods = new int[rows];
+        var lyapunov = new double[rows];
+        var hysteresis = branches ? new bool[rows] : null;
+        var sampleRows = samples ? new RowValues.Builder(rows, values) : null;
+        var backwardRows = branches && samples ? new RowValues.Builder(rows, values) : null;
+        var buffers = samples ? new SampleBuffers(checked((int)levels)) : null;
+        var names = new Dictionary<string, string>(StringComparer.Ordinal);
+        var at = 0;
         foreach (var part in parts)
         {
             await using var reader = await ParquetReader.CreateAsync(part, null, token);
@@ -83,46 +106,47 @@ public sealed class RunTable
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
                 using var group = reader.OpenRowGroupReader(g);
-                var rows = (int)group.RowCount;
-                points.AddRange(await Read<long>(group, Field("point"), rows, token));
+                var count = (int)group.RowCount;
+                await group.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
                 for (var a = 0; a < axisNames.Count; a++)
                 {
-                    axes[a].AddRange(await Read<double>(group, Field(axisNames[a]), rows, token));
+                    await group.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
                 }
 
-                var regime = new string[rows];
-                await group.ReadAsync(Field("regime"), regime, null, token);
-                regimes.AddRange(regime);
-                periods.AddRange(await Read<int>(group, Field("period"), rows, token));
-                lyapunov.AddRange(await Read<double>(group, Field("lyapunov_1"), rows, token));
+                await group.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
+                Share(regimes.AsSpan(at, count), names);
+                await group.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
+                await group.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
                 if (sampleRows is not null)
                 {
-                    await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("samples", StringComparison.Ordinal)), dimension, sampleRows, token);
+                    await ReadSamples(group, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
                 }
 
                 if (hysteresis is not null)
                 {
-                    hysteresis.AddRange(await Read<bool>(group, Field("hysteresis"), rows, token));
+                    await group.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
                 }
 
                 if (backwardRows is not null)
                 {
-                    await ReadSamples(group, fields.First(f => f.Path.ToString().StartsWith("backward_samples", StringComparison.Ordinal)), dimension, backwardRows, token);
+                    await ReadSamples(group, SamplesField(fields, "backward_samples"), dimension, buffers!.Fit(group.GetMetadata(SamplesField(fields, "backward_samples"))!.MetaData!.NumValues), backwardRows, token);
                 }
+
+                at += count;
             }
         }
 
         // Parts hold ascending point ranges and are read in order, so the rows are usually sorted already: then the
-        // columns are taken as they are (sorting 10^7 rows through an index permutation took seconds and twice the memory).
+        // columns are kept as they are (sorting 10^7 rows through an index permutation took seconds and twice the memory).
         var sorted = true;
-        for (var i = 1; i < points.Count && sorted; i++)
+        for (var i = 1; i < rows && sorted; i++)
         {
             sorted = points[i - 1] <= points[i];
         }
 
-        var order = sorted ? null : Enumerable.Range(0, points.Count).OrderBy(i => points[i]).ToArray();
-        T[] Sorted<T>(List<T> list) => order is null ? list.ToArray() : order.Select(i => list[i]).ToArray();
-        RowValues Rows(RowValues.Builder rows) => order is null ? rows.Build() : rows.Build().Reorder(order);
+        var order = sorted ? null : Enumerable.Range(0, rows).OrderBy(i => points[i]).ToArray();
+        T[] Sorted<T>(T[] column) => order is null ? column : order.Select(i => column[i]).ToArray();
+        RowValues Rows(RowValues.Builder list) => order is null ? list.Build() : list.Build().Reorder(order);
         return new RunTable(
             Sorted(points),
             axes.Select(Sorted).ToArray(),
@@ -133,6 +157,41 @@ public sealed class RunTable
             attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null,
             hysteresis is null ? null : Sorted(hysteresis),
             backwardRows is null ? null : Rows(backwardRows));
+    }
+
+    private static DataField SamplesField(DataField[] fields, string name) =>
+        fields.First(f => f.Path.ToString().StartsWith(name, StringComparison.Ordinal));
+
+    /// <summary>One string object per distinct regime name: the reader gives each row its own, ten million of them for 10^7 rows.</summary>
+    private static void Share(Span<string> values, Dictionary<string, string> names)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            if (values[i] is { } value)
+            {
+                values[i] = names.TryGetValue(value, out var shared) ? shared : names[value] = value;
+            }
+        }
+    }
+
+    /// <summary>The value and level buffers of a samples column chunk, kept for the next chunk.</summary>
+    private sealed class SampleBuffers(int size)
+    {
+        public double[] Values { get; private set; } = new double[size];
+
+        public int[] Definitions { get; private set; } = new int[size];
+
+        public int[] Repetitions { get; private set; } = new int[size];
+
+        public SampleBuffers Fit(long levels)
+        {
+            if (levels > Values.Length)
+            {
+                (Values, Definitions, Repetitions) = (new double[levels], new int[levels], new int[levels]);
+            }
+
+            return this;
+        }
     }
 
     /// <summary>
@@ -167,14 +226,13 @@ public sealed class RunTable
     /// Appends the list rows rebuilt from the column's levels — repetition 0 starts a row, definition 2 is a value, 1 an
     /// empty list — keeping the first variable's value of each state.
     /// </summary>
-    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, int dimension, RowValues.Builder rows, CancellationToken token)
+    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, int dimension, SampleBuffers buffers, RowValues.Builder rows, CancellationToken token)
     {
         // The chunk's value count counts level entries (values plus empty lists).
         var count = (int)group.GetMetadata(field)!.MetaData!.NumValues;
-        var valueBuffer = new double[count];
-        var definitionBuffer = new int[count];
-        var repetitionBuffer = new int[count];
-        await group.ReadRawAsync<double>(field, valueBuffer, definitionBuffer, repetitionBuffer, token);
+        buffers.Fit(count);
+        var (valueBuffer, definitionBuffer, repetitionBuffer) = (buffers.Values, buffers.Definitions, buffers.Repetitions);
+        await group.ReadRawAsync<double>(field, valueBuffer.AsMemory(0, count), definitionBuffer.AsMemory(0, count), repetitionBuffer.AsMemory(0, count), token);
         var (first, values) = (0, 0);
         for (var i = 0; i <= count; i++)
         {

@@ -25,7 +25,7 @@ public sealed class RowValuesTests
         Assert.True(rows[1].IsEmpty);
         Assert.Equal([3.0, 4.0], rows[2].ToArray());
         Assert.All(Enumerable.Range(3, 3000), r => Assert.Equal([2.0], rows[r].ToArray()));
-        Assert.Equal(4 + 3000, rows.Values.Length);
+        Assert.Equal(4 + 3000, rows.All.Length);
     }
 
     [Fact]
