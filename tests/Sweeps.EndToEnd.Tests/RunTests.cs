@@ -188,8 +188,10 @@ public sealed class RunTests
             Thread.Sleep(20);
         }
 
-        // What Ctrl-C sends.
-        using (var interrupt = Process.Start("kill", ["-INT", process.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)]))
+        // What Ctrl-C sends — unless this process ignores SIGINT, as anything a non-interactive shell starts in the
+        // background does (POSIX), and hence the run started from it too; then SIGTERM, which takes the same way out.
+        var signal = IgnoresInterrupt() ? "-TERM" : "-INT";
+        using (var interrupt = Process.Start("kill", [signal, process.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)]))
         {
             interrupt.WaitForExit();
         }
@@ -204,6 +206,13 @@ public sealed class RunTests
 
         // One start per point: no attractor parts (they would repeat the rows).
         Assert.Empty(Directory.GetFiles(Path.Combine(temp.Path, "stopped", "attractors")));
+    }
+
+    /// <summary>Whether SIGINT (bit 1 of the ignored-signals mask in /proc/self/status) is ignored by this process.</summary>
+    private static bool IgnoresInterrupt()
+    {
+        var line = File.ReadLines("/proc/self/status").FirstOrDefault(l => l.StartsWith("SigIgn:", StringComparison.Ordinal));
+        return line is not null && (ulong.Parse(line["SigIgn:".Length..].Trim(), System.Globalization.NumberStyles.HexNumber, System.Globalization.CultureInfo.InvariantCulture) & 0x2) != 0;
     }
 
     [Fact]
