@@ -50,15 +50,15 @@ public static class MapRenderer
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
         var subtitle = plane.Description.Length > 0 ? $" ({plane.Description})" : "";
-        var most = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
+        (int Columns, int Rows) pixels = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
         if (plane.Free.Count == 2)
         {
-            DrawPlane(plot, table, plane, request.Color, most);
+            DrawPlane(plot, table, plane, request.Color, pixels);
             plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
         }
         else
         {
-            DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0], most.Item1);
+            DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0], pixels.Columns);
             plot.Title($"{title}: attractor samples{subtitle}");
         }
 
@@ -79,7 +79,7 @@ public static class MapRenderer
     /// <summary>The strip colouring of a bifurcation diagram: regimes unless periods or attractors were asked for.</summary>
     private static ColorMode StripMode(ColorMode mode) => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
 
-    private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode, (int Columns, int Rows) most)
+    private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode, (int Columns, int Rows) pixels)
     {
         var (x, y) = (new AxisScale(plane.Free[0]), new AxisScale(plane.Free[1]));
         var (nx, ny) = ((int)plane.Free[0].Count, (int)plane.Free[1].Count);
@@ -103,7 +103,7 @@ public static class MapRenderer
             }
 
             var limit = Limit(table, plane);
-            var heatmap = plot.Add.Heatmap(Shrink(values, most.Rows, most.Columns, limit));
+            var heatmap = plot.Add.Heatmap(Shrink(values, pixels.Rows, pixels.Columns, limit));
             heatmap.Colormap = Palette.Exponents;
             heatmap.ManualRange = new ScottPlot.Range(-limit, limit);
             heatmap.Extent = new CoordinateRect(x0, x1, y0, y1);
@@ -121,7 +121,7 @@ public static class MapRenderer
                 Paint(plane, k, nx, ny, (i, j) => raster.Paint(i, ny - 1 - j, color));
             }
 
-            using var bitmap = raster.ToBitmap(most.Columns, most.Rows, Palette.Unknown);
+            using var bitmap = raster.ToBitmap(pixels.Columns, pixels.Rows, Palette.Unknown);
             var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
             image.AntiAlias = false;
             AddLegend(plot, table, plane.Rows, mode);
@@ -132,7 +132,7 @@ public static class MapRenderer
         ApplyTicks(plot.Axes.Left, y);
     }
 
-    private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable, int most)
+    private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable, int columnPixels)
     {
         var x = new AxisScale(plane.Free[0]);
         var nx = (int)plane.Free[0].Count;
@@ -196,7 +196,7 @@ public static class MapRenderer
                 }
             }
 
-            using var band = hysteretic.ToBitmap(most, 1, Palette.Unknown);
+            using var band = hysteretic.ToBitmap(columnPixels, 1, Palette.Unknown);
             var bandImage = plot.Add.ImageRect(new Image(band), new CoordinateRect(x0, x1, bandLow, stripLow - (0.01 * (high - low))));
             bandImage.AntiAlias = false;
             plot.Legend.ManualItems.Add(new LegendItem { LabelText = "forward sweep", FillColor = Palette.ForwardBranch, LineWidth = 0, MarkerSize = 0 });
@@ -211,7 +211,7 @@ public static class MapRenderer
             Paint(plane, k, nx, 1, (i, _) => classes.Paint(i, 0, color));
         }
 
-        using var strip = classes.ToBitmap(most, 1, Palette.Unknown);
+        using var strip = classes.ToBitmap(columnPixels, 1, Palette.Unknown);
         var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
         stripImage.AntiAlias = false;
         AddLegend(plot, table, plane.Rows, StripMode(mode));

@@ -129,7 +129,7 @@ public sealed class RunTable
 
                 if (backwardRows is not null)
                 {
-                    await ReadSamples(group, SamplesField(fields, "backward_samples"), dimension, buffers!.Fit(group.GetMetadata(SamplesField(fields, "backward_samples"))!.MetaData!.NumValues), backwardRows, token);
+                    await ReadSamples(group, SamplesField(fields, "backward_samples"), dimension, buffers!, backwardRows, token);
                 }
 
                 at += count;
@@ -183,14 +183,13 @@ public sealed class RunTable
 
         public int[] Repetitions { get; private set; } = new int[size];
 
-        public SampleBuffers Fit(long levels)
+        /// <summary>Makes room for <paramref name="levels"/> level entries (a backward branch's chunk can hold more than the forward one's).</summary>
+        public void Fit(int levels)
         {
             if (levels > Values.Length)
             {
                 (Values, Definitions, Repetitions) = (new double[levels], new int[levels], new int[levels]);
             }
-
-            return this;
         }
     }
 
