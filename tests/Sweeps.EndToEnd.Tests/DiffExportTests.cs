@@ -114,6 +114,24 @@ public sealed class DiffExportTests
     }
 
     [Fact]
+    public void Export_WritesTheFormatTheOutputIsNamedFor_AndRefusesAContradiction()
+    {
+        using var temp = new TempFolder();
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", temp.Write("stock.toml", Config), "--out", "run").ExitCode);
+
+        // No --format: a .csv name gets CSV (a header line), a .parquet name Parquet (the format's magic bytes).
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "export", "run", "-o", "all.csv").ExitCode);
+        Assert.StartsWith("point,", File.ReadLines(Path.Combine(temp.Path, "all.csv")).First(), StringComparison.Ordinal);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "export", "run", "-o", "all.parquet").ExitCode);
+        Assert.Equal("PAR1"u8.ToArray(), File.ReadAllBytes(Path.Combine(temp.Path, "all.parquet"))[..4]);
+
+        var (code, _, error) = SweepsProcess.Run(temp.Path, "export", "run", "--format", "parquet", "-o", "other.csv");
+        Assert.Equal(2, code);
+        Assert.Contains("named for csv", error);
+        Assert.False(File.Exists(Path.Combine(temp.Path, "other.csv")));
+    }
+
+    [Fact]
     public void ExportParquet_GivesOneFileWithTheSameRows()
     {
         using var temp = new TempFolder();
