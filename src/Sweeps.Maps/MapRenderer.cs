@@ -12,8 +12,6 @@ namespace Sweeps.Maps;
 /// </summary>
 public static class MapRenderer
 {
-    private const int DensityRows = 500;
-
     /// <summary>
     /// The most pixels a picture of cells gets along an axis (more when the image asked for is wider or taller): a
     /// grid beyond it is drawn with several cells to a pixel (<see cref="CellRaster"/>), which loses nothing the image
@@ -31,6 +29,54 @@ public static class MapRenderer
     /// <param name="levels">Refinement levels 1, 2, … of the run (their tables), drawn at the finest resolution; not used for attractor colours.</param>
     public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
         Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
+
+    /// <summary>Whether <see cref="RenderStreamedAsync"/> can draw <paramref name="request"/>: a bifurcation diagram, not in attractor colours.</summary>
+    public static bool Streams(Grid grid, MapRequest request) => DrawsSamples(grid, request) && request.Color != ColorMode.Attractor;
+
+    /// <summary>
+    /// A bifurcation diagram read part by part: the run is read twice (the samples' range, then the picture) and never
+    /// held whole, so memory is the picture's whatever the run's size. Draws what <see cref="Render"/> draws, byte for
+    /// byte; for runs without refinement levels, and not in attractor colours (their labels come from the whole run).
+    /// </summary>
+    public static async Task<byte[]> RenderStreamedAsync(RunDirectory run, MapRequest request, string title, CancellationToken token = default) =>
+        (await BuildStreamedAsync(run, request, title, token)).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
+
+    internal static async Task<Plot> BuildStreamedAsync(RunDirectory run, MapRequest request, string title, CancellationToken token)
+    {
+        FontSetup.EnsureRegistered();
+        var spec = run.LoadSpec();
+        if (!Streams(spec.Grid, request))
+        {
+            throw new ArgumentException("only bifurcation diagrams in regime or period colours are drawn part by part");
+        }
+
+        BifurcationPicture? picture = null;
+        MapPlane? first = null;
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token))
+        {
+            var plane = MapPlane.Select(spec.Grid, part, request.Slices);
+            first ??= plane;
+            picture ??= new BifurcationPicture(plane.Free[0], request.Color, spec.Grid.Follow is not null);
+            picture.Measure(part, plane);
+        }
+
+        if (picture is null || first is null)
+        {
+            // No part written yet: nothing to stream, the in-memory drawing handles the empty run.
+            return Build(run, await RunTable.ReadAsync(run, samples: true, token), request, title);
+        }
+
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token))
+        {
+            picture.Add(part, MapPlane.Select(spec.Grid, part, request.Slices));
+        }
+
+        var plot = new Plot();
+        plot.FigureBackground.Color = Colors.White;
+        picture.Draw(plot, spec.Model.Variables[0], Math.Max(MostPixels, request.Width));
+        plot.Title($"{title}: attractor samples{(first.Description.Length > 0 ? $" ({first.Description})" : "")}");
+        return plot;
+    }
 
     /// <summary>The plot, before rendering (tests render it and ask where data coordinates land in pixels).</summary>
     internal static Plot Build(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null)
@@ -75,9 +121,6 @@ public static class MapRenderer
 
     private static int AttractorLabel(RunTable table, int row) =>
         (table.Attractors ?? throw new InvalidOperationException("attractor labels were not read")).Label[row];
-
-    /// <summary>The strip colouring of a bifurcation diagram: regimes unless periods or attractors were asked for.</summary>
-    private static ColorMode StripMode(ColorMode mode) => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
 
     private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode, (int Columns, int Rows) pixels)
     {
@@ -134,96 +177,17 @@ public static class MapRenderer
 
     private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable, int columnPixels)
     {
-        var x = new AxisScale(plane.Free[0]);
-        var nx = (int)plane.Free[0].Count;
-        var (x0, x1) = x.Range();
-        var samples = table.Samples ?? throw new InvalidOperationException("samples were not read");
-        var backward = table.BackwardSamples;
-        var (low, high) = (double.PositiveInfinity, double.NegativeInfinity);
-        foreach (var row in plane.Rows)
-        {
-            (low, high) = Bounds(samples[row], low, high);
-            if (backward is not null)
-            {
-                (low, high) = Bounds(backward[row], low, high);
-            }
-        }
-
-        if (low > high)
-        {
-            (low, high) = (-1.0, 1.0);
-        }
-
-        if (high - low < 1e-12)
-        {
-            (low, high) = (low - 0.5, high + 0.5);
-        }
-
-        var span = high - low;
-        (low, high) = (low - (0.03 * span), high + (0.03 * span));
-
-        // Density, not overplotted dots: count samples per cell, shade by log(1 + count).
-        var columns = Math.Min(nx, 1200);
-        var (counts, densest) = Density(plane, samples, columns, nx, low, high);
-        var (backCounts, backMost) = backward is null ? (null, 1) : Density(plane, backward, columns, nx, low, high);
-        var shades = new SKColor[DensityRows * columns];
-        for (var r = 0; r < DensityRows; r++)
-        {
-            for (var c = 0; c < columns; c++)
-            {
-                shades[(r * columns) + c] = backCounts is null
-                    ? Grey(Shade(counts[r, c], densest))
-                    : TwoBranches(Shade(counts[r, c], densest), Shade(backCounts[r, c], backMost));
-            }
-        }
-
-        using var density = new SKBitmap(columns, DensityRows) { Pixels = shades };
-        var densityImage = plot.Add.ImageRect(new Image(density), new CoordinateRect(x0, x1, low, high));
-        densityImage.AntiAlias = false;
-
-        // The class strip beneath the diagram (and, for a continuation sweep, the hysteresis strip under it).
-        var stripHigh = low - (0.02 * (high - low));
-        var stripLow = low - (0.08 * (high - low));
-        if (table.Hysteresis is { } hysteresis)
-        {
-            var bandLow = stripLow - (0.05 * (high - low));
-            var hysteretic = new CellRaster(nx, 1);
-            for (var k = 0; k < plane.Rows.Count; k++)
-            {
-                if (hysteresis[plane.Rows[k]])
-                {
-                    hysteretic.Paint((int)plane.Cells[k, 0], 0, Palette.Hysteresis);
-                }
-            }
-
-            using var band = hysteretic.ToBitmap(columnPixels, 1, Palette.Unknown);
-            var bandImage = plot.Add.ImageRect(new Image(band), new CoordinateRect(x0, x1, bandLow, stripLow - (0.01 * (high - low))));
-            bandImage.AntiAlias = false;
-            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "forward sweep", FillColor = Palette.ForwardBranch, LineWidth = 0, MarkerSize = 0 });
-            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "backward sweep", FillColor = Palette.BackwardBranch, LineWidth = 0, MarkerSize = 0 });
-            plot.Legend.ManualItems.Add(new LegendItem { LabelText = "hysteresis (lower strip)", FillColor = Palette.Hysteresis, LineWidth = 0, MarkerSize = 0 });
-            stripLow = bandLow;
-        }
-        var classes = new CellRaster(nx, 1);
-        for (var k = 0; k < plane.Rows.Count; k++)
-        {
-            var color = CellColor(table, plane.Rows[k], StripMode(mode));
-            Paint(plane, k, nx, 1, (i, _) => classes.Paint(i, 0, color));
-        }
-
-        using var strip = classes.ToBitmap(columnPixels, 1, Palette.Unknown);
-        var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
-        stripImage.AntiAlias = false;
-        AddLegend(plot, table, plane.Rows, StripMode(mode));
-        plot.Axes.SetLimits(x0, x1, stripLow, high);
-        Label(plot, x, $"{variable} (samples; strip: {Describe(StripMode(mode))})");
+        var picture = new BifurcationPicture(plane.Free[0], mode, table.Hysteresis is not null);
+        picture.Measure(table, plane);
+        picture.Add(table, plane);
+        picture.Draw(plot, variable, columnPixels);
     }
 
     /// <summary>
     /// Visits the cells row k covers: its own, or on a refined plane the block around it reaching halfway to its
     /// neighbours of the same level. Rows are painted coarse level first, so finer points overwrite coarser blocks.
     /// </summary>
-    private static void Paint(MapPlane plane, int k, int nx, int ny, Action<int, int> cell)
+    internal static void Paint(MapPlane plane, int k, int nx, int ny, Action<int, int> cell)
     {
         var x = plane.Cells[k, 0];
         var half = plane.Half?[k];
@@ -238,68 +202,24 @@ public static class MapRenderer
         }
     }
 
-    /// <summary>The finite values' range widened to take <paramref name="values"/> in.</summary>
-    private static (double Low, double High) Bounds(ReadOnlySpan<double> values, double low, double high)
+    private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode) => ShowLegend(plot, mode switch
     {
-        foreach (var value in values)
-        {
-            if (double.IsFinite(value))
-            {
-                (low, high) = (Math.Min(low, value), Math.Max(high, value));
-            }
-        }
+        ColorMode.Period => PeriodLegend(rows.Select(r => PeriodBucket(table.Period[r]))),
+        ColorMode.Attractor => AttractorLegend(table, rows),
+        _ => RegimeLegend(rows.Select(r => table.Regime[r])),
+    });
 
-        return (low, high);
-    }
+    /// <summary>The legend's period entry a period falls in: 1 … 8 their own, beyond that one bucket, 0 for none.</summary>
+    internal static int PeriodBucket(int period) => Math.Min(period, Palette.PeriodColors.Length + 1);
 
-    private static (int[,] Counts, int Most) Density(MapPlane plane, RowValues samples, int columns, int nx, double low, double high)
+    internal static IEnumerable<(string, Color)> PeriodLegend(IEnumerable<int> buckets) =>
+        buckets.Distinct().Order().Select(p => (p == 0 ? "none" : p > Palette.PeriodColors.Length ? $"> {Palette.PeriodColors.Length}" : $"period {p}", Palette.ForPeriod(p)));
+
+    internal static IEnumerable<(string, Color)> RegimeLegend(IEnumerable<string> regimes) =>
+        Engine.Runs.RegimeOrder.Sort(regimes.Distinct()).Select(regime => (regime, Palette.ForRegime(regime)));
+
+    internal static void ShowLegend(Plot plot, IEnumerable<(string Label, Color Color)> items)
     {
-        var counts = new int[DensityRows, columns];
-        var most = 1;
-        for (var k = 0; k < plane.Rows.Count; k++)
-        {
-            var column = (int)(plane.Cells[k, 0] * columns / nx);
-            foreach (var value in samples[plane.Rows[k]])
-            {
-                if (double.IsFinite(value))
-                {
-                    var rowIndex = Math.Clamp((int)((high - value) / (high - low) * DensityRows), 0, DensityRows - 1);
-                    most = Math.Max(most, ++counts[rowIndex, column]);
-                }
-            }
-        }
-
-        return (counts, most);
-    }
-
-    /// <summary>0 for an empty cell, else 0.25 … 1 by log(1 + count).</summary>
-    private static double Shade(int count, int most) => count == 0 ? 0 : 0.25 + (0.75 * Math.Log(1 + count) / Math.Log(1 + most));
-
-    private static SKColor Grey(double shade)
-    {
-        var level = (byte)(255 - (int)(shade * 235));
-        return new SKColor(level, level, (byte)Math.Min(255, level + 12));
-    }
-
-    /// <summary>Each branch tints white towards its own colour; where both have samples the tints multiply (darker).</summary>
-    private static SKColor TwoBranches(double forward, double backward)
-    {
-        static double Tint(double shade, byte channel) => 1 - (shade * (1 - (channel / 255.0)));
-        var (f, b) = (Palette.ForwardBranch, Palette.BackwardBranch);
-        byte Mix(byte fc, byte bc) => (byte)Math.Round(255 * Tint(forward, fc) * Tint(backward, bc));
-        return new SKColor(Mix(f.R, b.R), Mix(f.G, b.G), Mix(f.B, b.B));
-    }
-
-    private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode)
-    {
-        var items = mode switch
-        {
-            ColorMode.Period => rows.Select(r => Math.Min(table.Period[r], Palette.PeriodColors.Length + 1)).Distinct().Order()
-                .Select(p => (p == 0 ? "none" : p > Palette.PeriodColors.Length ? $"> {Palette.PeriodColors.Length}" : $"period {p}", Palette.ForPeriod(p))),
-            ColorMode.Attractor => AttractorLegend(table, rows),
-            _ => Engine.Runs.RegimeOrder.Sort(rows.Select(r => table.Regime[r]).Distinct())
-                .Select(regime => (regime, Palette.ForRegime(regime))),
-        };
         foreach (var (label, color) in items)
         {
             plot.Legend.ManualItems.Add(new LegendItem { LabelText = label, FillColor = color, LineWidth = 0, MarkerSize = 0 });
@@ -310,7 +230,7 @@ public static class MapRenderer
     }
 
     /// <summary>One entry per attractor label on the plane (those beyond the palette share one): its number, class and where it sits.</summary>
-    private static IEnumerable<(string, Color)> AttractorLegend(RunTable table, IReadOnlyList<int> rows)
+    internal static IEnumerable<(string, Color)> AttractorLegend(RunTable table, IReadOnlyList<int> rows)
     {
         var labels = table.Attractors!;
         var shown = Palette.AttractorColors.Length;
@@ -334,7 +254,7 @@ public static class MapRenderer
         }
     }
 
-    private static void Label(Plot plot, AxisScale x, string y)
+    internal static void Label(Plot plot, AxisScale x, string y)
     {
         plot.XLabel(x.Label);
         plot.YLabel(y);
@@ -405,7 +325,7 @@ public static class MapRenderer
 
     private static double Clip(double value) => double.IsNegativeInfinity(value) ? -1e300 : value;
 
-    private static string Describe(ColorMode mode) => mode switch
+    internal static string Describe(ColorMode mode) => mode switch
     {
         ColorMode.Period => "period",
         ColorMode.Lyapunov => "largest Lyapunov exponent",

@@ -42,18 +42,10 @@ internal static class MapCommand
 
             var request = new MapRequest(mode, MapSlices.Parse(parse.GetValue(slice) ?? []), w, h);
             var path = parse.GetValue(output) ?? Path.Combine(run.FullPath, $"map-{parse.GetValue(color)}.png");
-            var samples = MapRenderer.DrawsSamples(run.LoadSpec().Grid, request);
-            var table = await RunTable.ReadAsync(run, samples, attractors: mode == ColorMode.Attractor, token);
-            var levels = new List<RunTable>();
-            for (var level = 1; level <= run.FinishedLevels(); level++)
-            {
-                levels.Add(await RunTable.ReadLevelAsync(run, level, samples, token));
-            }
-
             byte[] png;
             try
             {
-                png = MapRenderer.Render(run, table, request, Path.GetFileName(run.FullPath), levels);
+                png = await DrawAsync(run, request, token);
             }
             catch (ArgumentException error)
             {
@@ -65,5 +57,29 @@ internal static class MapCommand
             return ExitCodes.Success;
         });
         return command;
+    }
+
+    /// <summary>
+    /// A bifurcation diagram of a run without refinement levels is drawn part by part (memory bounded by the picture,
+    /// not the run); everything else from the run read whole.
+    /// </summary>
+    private static async Task<byte[]> DrawAsync(RunDirectory run, MapRequest request, CancellationToken token)
+    {
+        var grid = run.LoadSpec().Grid;
+        var title = Path.GetFileName(run.FullPath);
+        if (run.FinishedLevels() == 0 && MapRenderer.Streams(grid, request))
+        {
+            return await MapRenderer.RenderStreamedAsync(run, request, title, token);
+        }
+
+        var samples = MapRenderer.DrawsSamples(grid, request);
+        var table = await RunTable.ReadAsync(run, samples, attractors: request.Color == ColorMode.Attractor, token);
+        var levels = new List<RunTable>();
+        for (var level = 1; level <= run.FinishedLevels(); level++)
+        {
+            levels.Add(await RunTable.ReadLevelAsync(run, level, samples, token));
+        }
+
+        return MapRenderer.Render(run, table, request, title, levels);
     }
 }

@@ -61,12 +61,38 @@ public sealed class RunTable
     public static Task<RunTable> ReadLevelAsync(RunDirectory run, int level, bool samples, CancellationToken token = default) =>
         ReadAsync(run, Path.Combine(run.LevelPath(level), "parts"), samples, attractors: false, token);
 
-    private static async Task<RunTable> ReadAsync(RunDirectory run, string folder, bool samples, bool attractors, CancellationToken token)
+    /// <summary>
+    /// The run's parts one table each, in part order — for a reader that needs every row once but never all of them at
+    /// a time (a bifurcation diagram of 10^8 points).
+    /// </summary>
+    public static async IAsyncEnumerable<RunTable> ReadEachPartAsync(RunDirectory run, bool samples, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
     {
-        var axisNames = SpecFingerprintAxes(run);
-        var branches = run.LoadSpec().Grid.Follow is not null;
-        var dimension = run.LoadSpec().Model.Variables.Count;
-        var parts = Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
+        var layout = Layout.Of(run);
+        foreach (var part in PartsIn(run.PartsPath))
+        {
+            yield return await ReadAsync(run, layout, [part], samples, attractors: false, token);
+        }
+    }
+
+    private static string[] PartsIn(string folder) =>
+        Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
+
+    private static Task<RunTable> ReadAsync(RunDirectory run, string folder, bool samples, bool attractors, CancellationToken token) =>
+        ReadAsync(run, Layout.Of(run), PartsIn(folder), samples, attractors, token);
+
+    /// <summary>What every part of a run holds: its axes' names, whether it has backward branches, its dimension.</summary>
+    private sealed record Layout(IReadOnlyList<string> AxisNames, bool Branches, int Dimension)
+    {
+        public static Layout Of(RunDirectory run)
+        {
+            var spec = run.LoadSpec();
+            return new Layout(SpecFingerprintAxes(run), spec.Grid.Follow is not null, spec.Model.Variables.Count);
+        }
+    }
+
+    private static async Task<RunTable> ReadAsync(RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token)
+    {
+        var (axisNames, branches, dimension) = (layout.AxisNames, layout.Branches, layout.Dimension);
 
         // The footers first: every column is then sized once and read straight into place (growing lists and copying
         // them out cost more than the reading, for 10^7 rows).
