@@ -52,7 +52,7 @@ public static class MapRenderer
 
         BifurcationPicture? picture = null;
         MapPlane? first = null;
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token))
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, pointsAndSamplesOnly: true, token))
         {
             var plane = MapPlane.Select(spec.Grid, part, request.Slices);
             first ??= plane;
@@ -66,7 +66,7 @@ public static class MapRenderer
             return Build(run, await RunTable.ReadAsync(run, samples: true, token), request, title);
         }
 
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token))
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token: token))
         {
             picture.Add(part, MapPlane.Select(spec.Grid, part, request.Slices));
         }

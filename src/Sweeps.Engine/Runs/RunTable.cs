@@ -63,14 +63,17 @@ public sealed class RunTable
 
     /// <summary>
     /// The run's parts one table each, in part order — for a reader that needs every row once but never all of them at
-    /// a time (a bifurcation diagram of 10^8 points).
+    /// a time (a bifurcation diagram of 10^8 points). With <paramref name="pointsAndSamplesOnly"/> only the point indices
+    /// and the samples are read (a first pass after the samples' range); the other columns are then left at their
+    /// default values.
     /// </summary>
-    public static async IAsyncEnumerable<RunTable> ReadEachPartAsync(RunDirectory run, bool samples, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
+    public static async IAsyncEnumerable<RunTable> ReadEachPartAsync(
+        RunDirectory run, bool samples, bool pointsAndSamplesOnly = false, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
     {
         var layout = Layout.Of(run);
         foreach (var part in PartsIn(run.PartsPath))
         {
-            yield return await ReadAsync(run, layout, [part], samples, attractors: false, token);
+            yield return await ReadAsync(run, layout, [part], samples, attractors: false, token, pointsAndSamplesOnly);
         }
     }
 
@@ -90,7 +93,7 @@ public sealed class RunTable
         }
     }
 
-    private static async Task<RunTable> ReadAsync(RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token)
+    private static async Task<RunTable> ReadAsync(RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token, bool pointsAndSamplesOnly = false)
     {
         var (axisNames, branches, dimension) = (layout.AxisNames, layout.Branches, layout.Dimension);
 
@@ -134,21 +137,25 @@ public sealed class RunTable
                 using var group = reader.OpenRowGroupReader(g);
                 var count = (int)group.RowCount;
                 await group.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
-                for (var a = 0; a < axisNames.Count; a++)
+                for (var a = 0; a < axisNames.Count && !pointsAndSamplesOnly; a++)
                 {
                     await group.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
                 }
 
-                await group.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
-                Share(regimes.AsSpan(at, count), names);
-                await group.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
-                await group.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
+                if (!pointsAndSamplesOnly)
+                {
+                    await group.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
+                    Share(regimes.AsSpan(at, count), names);
+                    await group.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
+                    await group.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
+                }
+
                 if (sampleRows is not null)
                 {
                     await ReadSamples(group, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
                 }
 
-                if (hysteresis is not null)
+                if (hysteresis is not null && !pointsAndSamplesOnly)
                 {
                     await group.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
                 }
