@@ -30,13 +30,13 @@ public static class MapRenderer
     public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
         Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
 
-    /// <summary>Whether <see cref="RenderStreamedAsync"/> can draw <paramref name="request"/>: a bifurcation diagram, not in attractor colours.</summary>
-    public static bool Streams(Grid grid, MapRequest request) => DrawsSamples(grid, request) && request.Color != ColorMode.Attractor;
+    /// <summary>Whether <see cref="RenderStreamedAsync"/> can draw <paramref name="request"/>: anything but attractor colours (their labels come from the whole run).</summary>
+    public static bool Streams(MapRequest request) => request.Color != ColorMode.Attractor;
 
     /// <summary>
-    /// A bifurcation diagram read part by part: the run is read twice (the samples' range, then the picture) and never
-    /// held whole, so memory is the picture's whatever the run's size. Draws what <see cref="Render"/> draws, byte for
-    /// byte; for runs without refinement levels, and not in attractor colours (their labels come from the whole run).
+    /// A map read part by part, the run never held whole, so memory is the picture's whatever the run's size: a regime,
+    /// period or exponent map in one pass, a bifurcation diagram in two (the samples' range, then the picture). Draws
+    /// what <see cref="Render"/> draws, byte for byte; for runs without refinement levels, and not in attractor colours.
     /// </summary>
     public static async Task<byte[]> RenderStreamedAsync(RunDirectory run, MapRequest request, string title, CancellationToken token = default) =>
         (await BuildStreamedAsync(run, request, title, token)).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
@@ -45,36 +45,58 @@ public static class MapRenderer
     {
         FontSetup.EnsureRegistered();
         var spec = run.LoadSpec();
-        if (!Streams(spec.Grid, request))
+        if (!Streams(request))
         {
-            throw new ArgumentException("only bifurcation diagrams in regime or period colours are drawn part by part");
+            throw new ArgumentException("attractor colours are drawn from the whole run, not part by part");
         }
 
-        BifurcationPicture? picture = null;
+        (int Columns, int Rows) pixels = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
+        var bifurcation = DrawsSamples(spec.Grid, request);
         MapPlane? first = null;
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, pointsAndSamplesOnly: true, token))
+        BifurcationPicture? line = null;
+        PlanePicture? plane = null;
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: bifurcation, pointsAndSamplesOnly: bifurcation, token))
         {
-            var plane = MapPlane.Select(spec.Grid, part, request.Slices);
-            first ??= plane;
-            picture ??= new BifurcationPicture(plane.Free[0], request.Color, spec.Grid.Follow is not null);
-            picture.Measure(part, plane);
+            var cut = MapPlane.Select(spec.Grid, part, request.Slices);
+            first ??= cut;
+            if (bifurcation)
+            {
+                // First pass: the samples' range.
+                line ??= new BifurcationPicture(cut.Free[0], request.Color, spec.Grid.Follow is not null);
+                line.Measure(part, cut);
+            }
+            else
+            {
+                plane ??= new PlanePicture(cut, request.Color);
+                plane.Add(part, cut);
+            }
         }
 
-        if (picture is null || first is null)
+        if (first is null)
         {
             // No part written yet: nothing to stream, the in-memory drawing handles the empty run.
-            return Build(run, await RunTable.ReadAsync(run, samples: true, token), request, title);
-        }
-
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token: token))
-        {
-            picture.Add(part, MapPlane.Select(spec.Grid, part, request.Slices));
+            return Build(run, await RunTable.ReadAsync(run, samples: bifurcation, token), request, title);
         }
 
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
-        picture.Draw(plot, spec.Model.Variables[0], Math.Max(MostPixels, request.Width));
-        plot.Title($"{title}: attractor samples{(first.Description.Length > 0 ? $" ({first.Description})" : "")}");
+        var subtitle = first.Description.Length > 0 ? $" ({first.Description})" : "";
+        if (line is not null)
+        {
+            await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token: token))
+            {
+                line.Add(part, MapPlane.Select(spec.Grid, part, request.Slices));
+            }
+
+            line.Draw(plot, spec.Model.Variables[0], pixels.Columns);
+            plot.Title($"{title}: attractor samples{subtitle}");
+        }
+        else
+        {
+            plane!.Draw(plot, pixels);
+            plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
+        }
+
         return plot;
     }
 
@@ -124,55 +146,9 @@ public static class MapRenderer
 
     private static void DrawPlane(Plot plot, RunTable table, MapPlane plane, ColorMode mode, (int Columns, int Rows) pixels)
     {
-        var (x, y) = (new AxisScale(plane.Free[0]), new AxisScale(plane.Free[1]));
-        var (nx, ny) = ((int)plane.Free[0].Count, (int)plane.Free[1].Count);
-        var (x0, x1) = x.Range();
-        var (y0, y1) = y.Range();
-        if (mode == ColorMode.Lyapunov)
-        {
-            var values = new double[ny, nx];
-            for (var i = 0; i < ny; i++)
-            {
-                for (var j = 0; j < nx; j++)
-                {
-                    values[i, j] = double.NaN;
-                }
-            }
-
-            for (var k = 0; k < plane.Rows.Count; k++)
-            {
-                var value = Clip(table.Lyapunov[plane.Rows[k]]);
-                Paint(plane, k, nx, ny, (i, j) => values[ny - 1 - j, i] = value);
-            }
-
-            var limit = Limit(table, plane);
-            var heatmap = plot.Add.Heatmap(Shrink(values, pixels.Rows, pixels.Columns, limit));
-            heatmap.Colormap = Palette.Exponents;
-            heatmap.ManualRange = new ScottPlot.Range(-limit, limit);
-            heatmap.Extent = new CoordinateRect(x0, x1, y0, y1);
-            heatmap.Smooth = false;
-            heatmap.NaNCellColor = Palette.NoPeriod;
-            var bar = plot.Add.ColorBar(heatmap, Edge.Right);
-            bar.Label = "largest Lyapunov exponent";
-        }
-        else
-        {
-            var raster = new CellRaster(nx, ny);
-            for (var k = 0; k < plane.Rows.Count; k++)
-            {
-                var color = CellColor(table, plane.Rows[k], mode);
-                Paint(plane, k, nx, ny, (i, j) => raster.Paint(i, ny - 1 - j, color));
-            }
-
-            using var bitmap = raster.ToBitmap(pixels.Columns, pixels.Rows, Palette.Unknown);
-            var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
-            image.AntiAlias = false;
-            AddLegend(plot, table, plane.Rows, mode);
-        }
-
-        plot.Axes.SetLimits(x0, x1, y0, y1);
-        Label(plot, x, y.Label);
-        ApplyTicks(plot.Axes.Left, y);
+        var picture = new PlanePicture(plane, mode);
+        picture.Add(table, plane);
+        picture.Draw(plot, pixels);
     }
 
     private static void DrawBifurcation(Plot plot, RunTable table, MapPlane plane, ColorMode mode, string variable, int columnPixels)
@@ -264,7 +240,7 @@ public static class MapRenderer
         ApplyTicks(plot.Axes.Bottom, x);
     }
 
-    private static void ApplyTicks(ScottPlot.IAxis axis, AxisScale scale)
+    internal static void ApplyTicks(ScottPlot.IAxis axis, AxisScale scale)
     {
         if (scale.ManualTicks() is { } ticks)
         {
@@ -272,16 +248,6 @@ public static class MapRenderer
         }
 
         axis.TickLabelStyle.FontSize = 13;
-    }
-
-    /// <summary>
-    /// The colour scale's half-range: the 95th percentile of |λ1| on the plane, so that a few superstable
-    /// points (λ → −∞) do not wash every other cell out to white; beyond it colours saturate.
-    /// </summary>
-    private static double Limit(RunTable table, MapPlane plane)
-    {
-        var finite = plane.Rows.Select(r => table.Lyapunov[r]).Where(double.IsFinite).Select(Math.Abs).Order().ToArray();
-        return finite.Length == 0 ? 1 : Math.Max(1e-6, finite[(int)(0.95 * (finite.Length - 1))]);
     }
 
     /// <summary>
@@ -322,8 +288,6 @@ public static class MapRenderer
 
         return shrunk;
     }
-
-    private static double Clip(double value) => double.IsNegativeInfinity(value) ? -1e300 : value;
 
     internal static string Describe(ColorMode mode) => mode switch
     {

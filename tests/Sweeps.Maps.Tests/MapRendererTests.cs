@@ -165,10 +165,11 @@ public sealed class MapRendererTests : IDisposable
         AssertColor(refinedImage, refined.GetPixel(new Coordinates(3.35, 1)), Palette.ForPeriod(2));
     }
 
-    // The same picture either way: a bifurcation diagram read part by part (the run never held whole) against the same
-    // diagram from the run read whole — byte for byte, in both strip colourings and on a plane cut from two axes.
+    // The same picture either way: a map read part by part (the run never held whole) against the same map from the run
+    // read whole — byte for byte: bifurcation diagrams in both strip colourings, on a line cut from two axes and for a
+    // continuation sweep; maps of two axes in regime, period and exponent colours.
     [Fact]
-    public async Task BifurcationDiagram_ReadPartByPart_IsTheSamePicture()
+    public async Task Map_ReadPartByPart_IsTheSamePicture()
     {
         var line = await TestRuns.CreateAsync(Path.Combine(folder, "line"), TestRuns.Logistic("r = { from = 2.8, to = 4.0, steps = 301 }"), chunkSize: 40);
         var plane = await TestRuns.CreateAsync(Path.Combine(folder, "plane"), TestRuns.Logistic("r = { from = 2.8, to = 4.0, steps = 61 }\nx = { from = 0.2, to = 0.8, steps = 3 }"), chunkSize: 25);
@@ -201,11 +202,14 @@ public sealed class MapRendererTests : IDisposable
             (line, new MapRequest(ColorMode.Regime, new Dictionary<string, double>(), 900, 600)),
             (line, new MapRequest(ColorMode.Period, new Dictionary<string, double>(), 900, 600)),
             (plane, new MapRequest(ColorMode.Regime, new Dictionary<string, double> { ["x"] = 0.5 }, 900, 600)),
+            (plane, new MapRequest(ColorMode.Regime, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Period, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Lyapunov, new Dictionary<string, double>())),
         })
         {
             Assert.True(Directory.GetFiles(run.PartsPath).Length > 2, "the runs have several parts");
-            Assert.True(MapRenderer.Streams(run.LoadSpec().Grid, request));
-            var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples: true), request, "logistic");
+            Assert.True(MapRenderer.Streams(request));
+            var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples: MapRenderer.DrawsSamples(run.LoadSpec().Grid, request)), request, "logistic");
             var streamed = await MapRenderer.RenderStreamedAsync(run, request, "logistic");
             Assert.Equal(whole, streamed);
         }

@@ -60,14 +60,14 @@ internal static class MapCommand
     }
 
     /// <summary>
-    /// A bifurcation diagram of a run without refinement levels is drawn part by part (memory bounded by the picture,
-    /// not the run); everything else from the run read whole.
+    /// A run without refinement levels is drawn part by part (memory bounded by the picture, not the run), unless in
+    /// attractor colours; those and refined runs are read whole.
     /// </summary>
     private static async Task<byte[]> DrawAsync(RunDirectory run, MapRequest request, CancellationToken token)
     {
         var grid = run.LoadSpec().Grid;
         var title = Path.GetFileName(run.FullPath);
-        if (run.FinishedLevels() == 0 && MapRenderer.Streams(grid, request))
+        if (run.FinishedLevels() == 0 && MapRenderer.Streams(request))
         {
             return await MapRenderer.RenderStreamedAsync(run, request, title, token);
         }
