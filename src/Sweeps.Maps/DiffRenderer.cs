@@ -19,8 +19,6 @@ public static class DiffRenderer
         FontSetup.EnsureRegistered();
         var table = diff.After;
         var plane = MapPlane.Select(run.LoadSpec().Grid, table, slices);
-        var changed = diff.ChangedRows.ToHashSet();
-        var before = Enumerable.Range(0, diff.Before.Count).ToDictionary(i => diff.Before.Point[i]);
         var x = new AxisScale(plane.Free[0]);
         var nx = (int)plane.Free[0].Count;
         var ny = plane.Free.Count == 2 ? (int)plane.Free[1].Count : 1;
@@ -34,8 +32,7 @@ public static class DiffRenderer
         for (var k = 0; k < plane.Rows.Count; k++)
         {
             var row = plane.Rows[k];
-            var color = !changed.Contains(row) ? Unchanged
-                : diff.Before.Regime[before[table.Point[row]]] != table.Regime[row] ? RegimeChanged : PeriodChanged;
+            var color = diff.Change[row] switch { 2 => RegimeChanged, 1 => PeriodChanged, _ => Unchanged };
             raster.Paint((int)plane.Cells[k, 0], plane.Free.Count == 2 ? ny - 1 - (int)plane.Cells[k, 1] : 0, color);
         }
 

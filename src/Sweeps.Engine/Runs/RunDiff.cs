@@ -22,6 +22,12 @@ public sealed record RunDiff(
     RunTable Before,
     RunTable After)
 {
+    /// <summary>For each of <see cref="ChangedRows"/> (rows of <see cref="After"/>), the same point's row in <see cref="Before"/>.</summary>
+    public IReadOnlyList<int> ChangedBeforeRows { get; private init; } = [];
+
+    /// <summary>Per row of <see cref="After"/>: 0 unchanged or only in one run, 1 the period changed, 2 the regime changed.</summary>
+    public byte[] Change { get; private init; } = [];
+
     /// <summary>Exponent differences at or below this are rounding, not change.</summary>
     public const double ExponentTolerance = 1e-9;
 
@@ -36,23 +42,27 @@ public sealed record RunDiff(
             throw ConfigException.Single(b.FullPath, $"is on a different grid from {a.FullPath} ({string.Join(" × ", a.Manifest.Shape)} vs {string.Join(" × ", b.Manifest.Shape)}, or other axis values); diff compares runs of one grid");
         }
 
-        var change = a.Manifest.SpecHash == b.Manifest.SpecHash
+        var specChange = a.Manifest.SpecHash == b.Manifest.SpecHash
             ? "same spec"
             : a.Manifest.ModelHash != b.Manifest.ModelHash ? "the model changed" : "settings changed (same model)";
         var before = await RunTable.ReadAsync(a, samples: false, token);
         var after = await RunTable.ReadAsync(b, samples: false, token);
-        var index = new Dictionary<long, int>(before.Count);
-        for (var i = 0; i < before.Count; i++)
-        {
-            index[before.Point[i]] = i;
-        }
 
+        // Both tables are in point order: the same points are found by walking them side by side (no index of either).
         var transitions = new Dictionary<(string, string), long>();
         var changed = new List<int>();
+        var changedBefore = new List<int>();
+        var change = new byte[after.Count];
         var (regimeChanged, periodChanged, shifted, compared, largest) = (0L, 0L, 0L, 0L, 0.0);
+        var i = 0;
         for (var j = 0; j < after.Count; j++)
         {
-            if (!index.TryGetValue(after.Point[j], out var i))
+            while (i < before.Count && before.Point[i] < after.Point[j])
+            {
+                i++;
+            }
+
+            if (i == before.Count || before.Point[i] != after.Point[j])
             {
                 continue;
             }
@@ -71,6 +81,8 @@ public sealed record RunDiff(
             if (regimeDiffers || periodDiffers)
             {
                 changed.Add(j);
+                changedBefore.Add(i);
+                change[j] = regimeDiffers ? (byte)2 : (byte)1;
             }
 
             var (x, y) = (before.Lyapunov[i], after.Lyapunov[j]);
@@ -83,7 +95,11 @@ public sealed record RunDiff(
         }
 
         var onlyInOne = (before.Count - compared) + (after.Count - compared);
-        return new RunDiff(change, compared, onlyInOne, transitions, regimeChanged, periodChanged, shifted, largest, changed, before, after);
+        return new RunDiff(specChange, compared, onlyInOne, transitions, regimeChanged, periodChanged, shifted, largest, changed, before, after)
+        {
+            ChangedBeforeRows = changedBefore,
+            Change = change,
+        };
     }
 
     /// <summary>The changed points (regime or period) as Parquet: point, axes, and both sides' regime, period and λ1.</summary>
@@ -99,8 +115,7 @@ public sealed record RunDiff(
         var lyapunovBefore = new DataField<double>("lyapunov_1_before");
         var lyapunovAfter = new DataField<double>("lyapunov_1_after");
         var schema = new ParquetSchema(new Field[] { point }.Concat(axes).Concat([regimeBefore, regimeAfter, periodBefore, periodAfter, lyapunovBefore, lyapunovAfter]));
-        var lookup = Enumerable.Range(0, Before.Count).ToDictionary(i => Before.Point[i]);
-        int Old(int row) => lookup[After.Point[row]];
+        var old = ChangedBeforeRows;
         await using var stream = File.Create(path);
         await using var writer = await ParquetWriter.CreateAsync(schema, stream, PartWriter.Options(), false, token);
         using var group = writer.CreateRowGroup();
@@ -110,11 +125,11 @@ public sealed record RunDiff(
             await group.WriteAsync(axes[a], (ReadOnlyMemory<double>)rows.Select(r => After.Axes[a][r]).ToArray(), null, null, token);
         }
 
-        await group.WriteAsync(regimeBefore, rows.Select(r => Before.Regime[Old(r)]).ToArray());
+        await group.WriteAsync(regimeBefore, old.Select(r => Before.Regime[r]).ToArray());
         await group.WriteAsync(regimeAfter, rows.Select(r => After.Regime[r]).ToArray());
-        await group.WriteAsync(periodBefore, (ReadOnlyMemory<int>)rows.Select(r => Before.Period[Old(r)]).ToArray(), null, null, token);
+        await group.WriteAsync(periodBefore, (ReadOnlyMemory<int>)old.Select(r => Before.Period[r]).ToArray(), null, null, token);
         await group.WriteAsync(periodAfter, (ReadOnlyMemory<int>)rows.Select(r => After.Period[r]).ToArray(), null, null, token);
-        await group.WriteAsync(lyapunovBefore, (ReadOnlyMemory<double>)rows.Select(r => Before.Lyapunov[Old(r)]).ToArray(), null, null, token);
+        await group.WriteAsync(lyapunovBefore, (ReadOnlyMemory<double>)old.Select(r => Before.Lyapunov[r]).ToArray(), null, null, token);
         await group.WriteAsync(lyapunovAfter, (ReadOnlyMemory<double>)rows.Select(r => After.Lyapunov[r]).ToArray(), null, null, token);
     }
 }
