@@ -38,8 +38,8 @@ public sealed class DiffRendererTests : IDisposable
         Assert.False(diff.NoChange);
 
         // A rough run of the same grid (3 + 64 iterations, chunks of 7): where its classes differ, the diff says so row by row.
-        var short_ = TestRuns.Logistic("r = { from = 2.8, to = 3.3, steps = 51 }").Replace("transient = 2000", "transient = 3", StringComparison.Ordinal).Replace("measure = 1000", "measure = 64", StringComparison.Ordinal);
-        var rough = await TestRuns.CreateAsync(Path.Combine(folder, "rough"), short_, chunkSize: 7);
+        var roughConfig = TestRuns.Logistic("r = { from = 2.8, to = 3.3, steps = 51 }").Replace("transient = 2000", "transient = 3", StringComparison.Ordinal).Replace("measure = 1000", "measure = 64", StringComparison.Ordinal);
+        var rough = await TestRuns.CreateAsync(Path.Combine(folder, "rough"), roughConfig, chunkSize: 7);
         var changes = await RunDiff.CompareAsync(whole, rough, CancellationToken.None);
         Assert.Equal(51, changes.Compared);
         Assert.NotEmpty(changes.ChangedRows);
