@@ -17,43 +17,59 @@ public sealed class DiffRendererTests : IDisposable
     [Fact]
     public async Task Diff_ComparesOnlyThePointsBothRunsHold_AndDrawsTheChanges()
     {
-        // 2.8 … 3.3 in 51 steps, chunks of 10: the partial run has chunks 0, 2 and 5 (30 + 1 points: the last chunk holds one).
+        // 2.8 … 3.3 in 51 steps, chunks of 10: the partial run has chunks 0, 2 and 3 (30 points) — a gap, and nothing of
+        // the whole run's last 11 points.
         var whole = await TestRuns.CreateAsync(Path.Combine(folder, "whole"), TestRuns.Logistic("r = { from = 2.8, to = 3.3, steps = 51 }"), chunkSize: 10);
         var config = TestRuns.Logistic("r = { from = 2.8, to = 3.3, steps = 51 }");
         var spec = SpecReader.Parse(config, "test.toml");
         var (partial, _) = RunDirectory.CreateOrResume(Path.Combine(folder, "partial", "run"), spec, config, [], 10, TimeProvider.System);
         var context = new RunContext(partial);
-        foreach (var chunk in new long[] { 0, 2, 5 })
+        foreach (var chunk in new long[] { 0, 2, 3 })
         {
             await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
         }
 
-        var diff = await RunDiff.CompareAsync(whole, partial, CancellationToken.None);
-        Assert.Equal(21, diff.Compared);
-        Assert.Equal(51 - 21, diff.OnlyInOne);
+        var diff = await RunDiff.CompareAsync(whole, partial, token: CancellationToken.None);
+        Assert.Equal(30, diff.Compared);
+        Assert.Equal(51 - 30, diff.OnlyInOne);
 
         // The same spec: every point both hold agrees bit for bit; the missing ones alone make it a change.
         Assert.Equal(0, diff.RegimeChanged + diff.PeriodChanged + diff.ExponentShifted);
-        Assert.Empty(diff.ChangedRows);
+        Assert.Equal(0, diff.Changed.Count);
         Assert.False(diff.NoChange);
 
         // A rough run of the same grid (3 + 64 iterations, chunks of 7): where its classes differ, the diff says so row by row.
         var roughConfig = TestRuns.Logistic("r = { from = 2.8, to = 3.3, steps = 51 }").Replace("transient = 2000", "transient = 3", StringComparison.Ordinal).Replace("measure = 1000", "measure = 64", StringComparison.Ordinal);
         var rough = await TestRuns.CreateAsync(Path.Combine(folder, "rough"), roughConfig, chunkSize: 7);
-        var changes = await RunDiff.CompareAsync(whole, rough, CancellationToken.None);
+        var picture = new DiffRenderer(whole.LoadSpec().Grid, new Dictionary<string, double>());
+        var codes = new Dictionary<long, byte>();
+        var changes = await RunDiff.CompareAsync(whole, rough, (part, code) =>
+        {
+            picture.Add(part, code);
+            for (var row = 0; row < part.Count; row++)
+            {
+                codes[part.Point[row]] = code[row];
+            }
+        });
         Assert.Equal(51, changes.Compared);
-        Assert.NotEmpty(changes.ChangedRows);
-        Assert.All(changes.ChangedRows.Zip(changes.ChangedBeforeRows), pair => Assert.Equal(changes.After.Point[pair.First], changes.Before.Point[pair.Second]));
-        Assert.All(Enumerable.Range(0, 51), row => Assert.Equal(
-            changes.Before.Regime[row] != changes.After.Regime[row] ? 2 : changes.Before.Period[row] != changes.After.Period[row] ? 1 : 0,
-            changes.Change[row]));
+        Assert.NotEqual(0, changes.Changed.Count);
 
-        var plot = DiffRenderer.Build(whole, changes, new Dictionary<string, double>(), "changes");
+        // Against the two runs read whole, independently of the walk: every point's code, and the changed points' values.
+        var (before, after) = (await RunTable.ReadAsync(whole, samples: false), await RunTable.ReadAsync(rough, samples: false));
+        Assert.All(Enumerable.Range(0, 51), row => Assert.Equal(
+            before.Regime[row] != after.Regime[row] ? RunDiff.Regime : before.Period[row] != after.Period[row] ? RunDiff.PeriodOnly : RunDiff.Unchanged,
+            codes[after.Point[row]]));
+        var changedRows = Enumerable.Range(0, 51).Where(row => codes[after.Point[row]] != RunDiff.Unchanged).ToArray();
+        Assert.Equal(changedRows.Select(r => after.Point[r]), changes.Changed.Point);
+        Assert.Equal(changedRows.Select(r => before.Regime[r]), changes.Changed.RegimeBefore);
+        Assert.Equal(changedRows.Select(r => after.Period[r]), changes.Changed.PeriodAfter);
+
+        var plot = picture.Build(changes, "changes");
         using var image = SkiaSharp.SKBitmap.Decode(plot.GetImageBytes(1000, 700, ImageFormat.Png));
-        var changedRow = changes.ChangedRows[0];
-        var at = plot.GetPixel(new Coordinates(changes.After.Axes[0][changedRow], 0.5));
+        var changedRow = changedRows[0];
+        var at = plot.GetPixel(new Coordinates(after.Axes[0][changedRow], 0.5));
         var pixel = image.GetPixel((int)at.X, (int)at.Y);
-        var expected = changes.Change[changedRow] == 2 ? DiffRenderer.RegimeChanged : DiffRenderer.PeriodChanged;
+        var expected = codes[after.Point[changedRow]] == RunDiff.Regime ? DiffRenderer.RegimeChanged : DiffRenderer.PeriodChanged;
         Assert.Equal((expected.R, expected.G, expected.B), (pixel.Red, pixel.Green, pixel.Blue));
     }
 

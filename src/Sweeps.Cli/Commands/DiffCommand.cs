@@ -27,7 +27,9 @@ internal static class DiffCommand
         {
             var a = RunDirectory.Open(parse.GetRequiredValue(first));
             var b = RunDirectory.Open(parse.GetRequiredValue(second));
-            var diff = await RunDiff.CompareAsync(a, b, token);
+            // The picture of the changes is painted as the diff reads the second run, part by part.
+            var picture = new DiffRenderer(b.LoadSpec().Grid, MapSlices.Parse(parse.GetValue(slice) ?? []));
+            var diff = await RunDiff.CompareAsync(a, b, picture.Add, token);
             var o = cli.Output;
             SummaryText.Line(o, "before", a.FullPath);
             SummaryText.Line(o, "after", b.FullPath);
@@ -53,7 +55,7 @@ internal static class DiffCommand
             await diff.WriteChangedAsync(Path.Combine(folder, "changed.parquet"), axes, token);
             try
             {
-                var png = DiffRenderer.Render(b, diff, MapSlices.Parse(parse.GetValue(slice) ?? []), $"changes: {Path.GetFileName(a.FullPath)} → {Path.GetFileName(b.FullPath)}");
+                var png = picture.Render(diff, $"changes: {Path.GetFileName(a.FullPath)} → {Path.GetFileName(b.FullPath)}");
                 await File.WriteAllBytesAsync(Path.Combine(folder, "changes.png"), png, token);
             }
             catch (ArgumentException error)
