@@ -70,7 +70,12 @@ internal sealed class BifurcationPicture(GridAxis axis, ColorMode mode, bool bra
         {
             var row = plane.Rows[k];
             var color = MapRenderer.CellColor(table, row, Strip);
-            MapRenderer.Paint(plane, k, nx, 1, (i, _) => classes.Paint(i, 0, color));
+            var (left, right, _, _) = MapRenderer.Cover(plane, k, nx, 1);
+            for (var i = left; i <= right; i++)
+            {
+                classes.Paint(i, 0, color);
+            }
+
             regimes.Add(table.Regime[row]);
             periods.Add(MapRenderer.PeriodBucket(table.Period[row]));
         }

@@ -160,22 +160,17 @@ public static class MapRenderer
     }
 
     /// <summary>
-    /// Visits the cells row k covers: its own, or on a refined plane the block around it reaching halfway to its
-    /// neighbours of the same level. Rows are painted coarse level first, so finer points overwrite coarser blocks.
+    /// The cells row k covers, as ranges of columns and rows (both inclusive): its own, or on a refined plane the block
+    /// around it reaching halfway to its neighbours of the same level. Rows are painted coarse level first, so finer
+    /// points overwrite coarser blocks.
     /// </summary>
-    internal static void Paint(MapPlane plane, int k, int nx, int ny, Action<int, int> cell)
+    internal static (int Left, int Right, int Bottom, int Top) Cover(MapPlane plane, int k, int nx, int ny)
     {
         var x = plane.Cells[k, 0];
         var half = plane.Half?[k];
         var (hx, hy) = (half?[0] ?? 0, half is { Length: > 1 } ? half[1] : 0);
         var y = plane.Cells.Axes > 1 ? plane.Cells[k, 1] : 0;
-        for (var i = Math.Max(0, x - hx); i <= Math.Min(nx - 1, x + hx); i++)
-        {
-            for (var j = Math.Max(0, y - hy); j <= Math.Min(ny - 1, y + hy); j++)
-            {
-                cell((int)i, (int)j);
-            }
-        }
+        return ((int)Math.Max(0, x - hx), (int)Math.Min(nx - 1, x + hx), (int)Math.Max(0, y - hy), (int)Math.Min(ny - 1, y + hy));
     }
 
     private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode) => ShowLegend(plot, mode switch

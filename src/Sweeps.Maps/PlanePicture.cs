@@ -29,7 +29,15 @@ internal sealed class PlanePicture(MapPlane first, ColorMode mode)
             {
                 var exponent = table.Lyapunov[plane.Rows[k]];
                 var value = double.IsNegativeInfinity(exponent) ? -1e300 : exponent;
-                MapRenderer.Paint(plane, k, nx, ny, (i, j) => values[ny - 1 - j, i] = value);
+                var (left, right, bottom, top) = MapRenderer.Cover(plane, k, nx, ny);
+                for (var i = left; i <= right; i++)
+                {
+                    for (var j = bottom; j <= top; j++)
+                    {
+                        values[ny - 1 - j, i] = value;
+                    }
+                }
+
                 if (double.IsFinite(exponent))
                 {
                     magnitudes.Add(Math.Abs(exponent));
@@ -44,7 +52,15 @@ internal sealed class PlanePicture(MapPlane first, ColorMode mode)
         {
             var row = plane.Rows[k];
             var color = MapRenderer.CellColor(table, row, mode);
-            MapRenderer.Paint(plane, k, nx, ny, (i, j) => raster.Paint(i, ny - 1 - j, color));
+            var (left, right, bottom, top) = MapRenderer.Cover(plane, k, nx, ny);
+            for (var i = left; i <= right; i++)
+            {
+                for (var j = bottom; j <= top; j++)
+                {
+                    raster.Paint(i, ny - 1 - j, color);
+                }
+            }
+
             regimes.Add(table.Regime[row]);
             periods.Add(MapRenderer.PeriodBucket(table.Period[row]));
         }
