@@ -18,16 +18,16 @@ internal sealed class BifurcationPicture(GridAxis axis, ColorMode mode, bool bra
     private readonly int nx = (int)axis.Count;
     private readonly CellRaster classes = new((int)axis.Count, 1);
     private readonly CellRaster? hysteretic = branches ? new((int)axis.Count, 1) : null;
-    private readonly HashSet<string> regimes = [];
-    private readonly HashSet<int> periods = [];
+    private readonly ColorMode stripColors = StripColors(mode);
+    private readonly LegendKeys legend = new(StripColors(mode));
     private (double Low, double High) range = (double.PositiveInfinity, double.NegativeInfinity);
     private int[,]? counts;
     private int[,]? backCounts;
-    private (RunTable Table, IReadOnlyList<int> Rows)? attractorRows;
 
     private int Columns => Math.Min(nx, 1200);
 
-    private ColorMode Strip => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
+    /// <summary>The strip's colouring: regimes unless periods or attractors were asked for.</summary>
+    private static ColorMode StripColors(ColorMode mode) => mode is ColorMode.Period or ColorMode.Attractor ? mode : ColorMode.Regime;
 
     /// <summary>Widens the value range to take in the samples of the table's rows on the plane (both branches).</summary>
     public void Measure(RunTable table, MapPlane plane)
@@ -68,22 +68,15 @@ internal sealed class BifurcationPicture(GridAxis axis, ColorMode mode, bool bra
 
         for (var k = 0; k < plane.Rows.Count; k++)
         {
-            var row = plane.Rows[k];
-            var color = MapRenderer.CellColor(table, row, Strip);
+            var color = MapRenderer.CellColor(table, plane.Rows[k], stripColors);
             var (left, right, _, _) = MapRenderer.Cover(plane, k, nx, 1);
             for (var i = left; i <= right; i++)
             {
                 classes.Paint(i, 0, color);
             }
-
-            regimes.Add(table.Regime[row]);
-            periods.Add(MapRenderer.PeriodBucket(table.Period[row]));
         }
 
-        if (Strip == ColorMode.Attractor)
-        {
-            attractorRows = attractorRows is null ? (table, plane.Rows) : throw new InvalidOperationException("attractor colours need the whole run in one table");
-        }
+        legend.Note(table, plane.Rows);
     }
 
     /// <summary>The diagram: the density of samples over the axis, the class strip beneath it (and the hysteresis strip).</summary>
@@ -129,14 +122,9 @@ internal sealed class BifurcationPicture(GridAxis axis, ColorMode mode, bool bra
         using var strip = classes.ToBitmap(columnPixels, 1, Palette.Unknown);
         var stripImage = plot.Add.ImageRect(new Image(strip), new CoordinateRect(x0, x1, low - (0.08 * (high - low)), stripHigh));
         stripImage.AntiAlias = false;
-        MapRenderer.ShowLegend(plot, Strip switch
-        {
-            ColorMode.Period => MapRenderer.PeriodLegend(periods),
-            ColorMode.Attractor => attractorRows is { } rows ? MapRenderer.AttractorLegend(rows.Table, rows.Rows) : [],
-            _ => MapRenderer.RegimeLegend(regimes),
-        });
+        legend.Show(plot);
         plot.Axes.SetLimits(x0, x1, stripLow, high);
-        MapRenderer.Label(plot, x, $"{variable} (samples; strip: {MapRenderer.Describe(Strip)})");
+        MapRenderer.Label(plot, x, $"{variable} (samples; strip: {MapRenderer.Describe(stripColors)})");
     }
 
     /// <summary>The drawn value range: the samples' range with 3 % on either side (±0.5 around a single value; −1 … 1 without samples).</summary>

@@ -43,6 +43,7 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
             var plane = Select(lattice, tables[level], exact);
             var stretch = (int)Math.Pow(2, finest - level);
             var free = plane.Free.Select(f => LevelGrid.Refinable(grid, IndexOf(grid, f.Name))).ToArray();
+            var half = free.Select(refined => refined ? (long)(stretch / 2) : 0L).ToArray();
             for (var k = 0; k < plane.Rows.Count; k++)
             {
                 rows.Add(offset + plane.Rows[k]);
@@ -52,7 +53,7 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
                 }
 
                 cells.Add(cell);
-                halves.Add(free.Select(refined => refined ? (long)(stretch / 2) : 0L).ToArray());
+                halves.Add(half); // one level's rows share their half-widths
             }
 
             offset += tables[level].Count;

@@ -50,7 +50,7 @@ public static class MapRenderer
             throw new ArgumentException("attractor colours are drawn from the whole run, not part by part");
         }
 
-        (int Columns, int Rows) pixels = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
+        var pixels = Pixels(request);
         var bifurcation = DrawsSamples(spec.Grid, request);
         MapPlane? first = null;
         BifurcationPicture? line = null;
@@ -80,7 +80,6 @@ public static class MapRenderer
 
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
-        var subtitle = first.Description.Length > 0 ? $" ({first.Description})" : "";
         if (line is not null)
         {
             await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token: token))
@@ -89,14 +88,13 @@ public static class MapRenderer
             }
 
             line.Draw(plot, spec.Model.Variables[0], pixels.Columns);
-            plot.Title($"{title}: attractor samples{subtitle}");
         }
         else
         {
             plane!.Draw(plot, pixels);
-            plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
         }
 
+        plot.Title(Heading(title, request, first));
         return plot;
     }
 
@@ -117,21 +115,26 @@ public static class MapRenderer
 
         var plot = new Plot();
         plot.FigureBackground.Color = Colors.White;
-        var subtitle = plane.Description.Length > 0 ? $" ({plane.Description})" : "";
-        (int Columns, int Rows) pixels = (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
+        var pixels = Pixels(request);
         if (plane.Free.Count == 2)
         {
             DrawPlane(plot, table, plane, request.Color, pixels);
-            plot.Title($"{title}: {Describe(request.Color)}{subtitle}");
         }
         else
         {
             DrawBifurcation(plot, table, plane, request.Color, run.LoadSpec().Model.Variables[0], pixels.Columns);
-            plot.Title($"{title}: attractor samples{subtitle}");
         }
 
+        plot.Title(Heading(title, request, plane));
         return plot;
     }
+
+    /// <summary>The most pixels a picture of cells gets along each axis for <paramref name="request"/>.</summary>
+    private static (int Columns, int Rows) Pixels(MapRequest request) => (Math.Max(MostPixels, request.Width), Math.Max(MostPixels, request.Height));
+
+    /// <summary>The title: what the colours show (a bifurcation diagram: the samples), and the fixed axes if any.</summary>
+    private static string Heading(string title, MapRequest request, MapPlane plane) =>
+        $"{title}: {(plane.Free.Count == 2 ? Describe(request.Color) : "attractor samples")}{(plane.Description.Length > 0 ? $" ({plane.Description})" : "")}";
 
     /// <summary>Colours of categorical cells, for maps and for the strip of a bifurcation diagram.</summary>
     internal static Color CellColor(RunTable table, int row, ColorMode mode) => mode switch
@@ -172,13 +175,6 @@ public static class MapRenderer
         var y = plane.Cells.Axes > 1 ? plane.Cells[k, 1] : 0;
         return ((int)Math.Max(0, x - hx), (int)Math.Min(nx - 1, x + hx), (int)Math.Max(0, y - hy), (int)Math.Min(ny - 1, y + hy));
     }
-
-    private static void AddLegend(Plot plot, RunTable table, IReadOnlyList<int> rows, ColorMode mode) => ShowLegend(plot, mode switch
-    {
-        ColorMode.Period => PeriodLegend(rows.Select(r => PeriodBucket(table.Period[r]))),
-        ColorMode.Attractor => AttractorLegend(table, rows),
-        _ => RegimeLegend(rows.Select(r => table.Regime[r])),
-    });
 
     /// <summary>The legend's period entry a period falls in: 1 … 8 their own, beyond that one bucket, 0 for none.</summary>
     internal static int PeriodBucket(int period) => Math.Min(period, Palette.PeriodColors.Length + 1);

@@ -13,12 +13,10 @@ internal sealed class PlanePicture(MapPlane first, ColorMode mode)
 {
     private readonly int nx = (int)first.Free[0].Count;
     private readonly int ny = (int)first.Free[1].Count;
-    private readonly HashSet<string> regimes = [];
-    private readonly HashSet<int> periods = [];
+    private readonly LegendKeys legend = new(mode);
     private readonly List<double> magnitudes = [];
     private CellRaster? raster;
     private double[,]? values;
-    private (RunTable Table, IReadOnlyList<int> Rows)? attractorRows;
 
     public void Add(RunTable table, MapPlane plane)
     {
@@ -60,15 +58,9 @@ internal sealed class PlanePicture(MapPlane first, ColorMode mode)
                     raster.Paint(i, ny - 1 - j, color);
                 }
             }
-
-            regimes.Add(table.Regime[row]);
-            periods.Add(MapRenderer.PeriodBucket(table.Period[row]));
         }
 
-        if (mode == ColorMode.Attractor)
-        {
-            attractorRows = attractorRows is null ? (table, plane.Rows) : throw new InvalidOperationException("attractor colours need the whole run in one table");
-        }
+        legend.Note(table, plane.Rows);
     }
 
     public void Draw(Plot plot, (int Columns, int Rows) pixels)
@@ -93,12 +85,7 @@ internal sealed class PlanePicture(MapPlane first, ColorMode mode)
             using var bitmap = (raster ?? new CellRaster(nx, ny)).ToBitmap(pixels.Columns, pixels.Rows, Palette.Unknown);
             var image = plot.Add.ImageRect(new Image(bitmap), new CoordinateRect(x0, x1, y0, y1));
             image.AntiAlias = false;
-            MapRenderer.ShowLegend(plot, mode switch
-            {
-                ColorMode.Period => MapRenderer.PeriodLegend(periods),
-                ColorMode.Attractor => attractorRows is { } rows ? MapRenderer.AttractorLegend(rows.Table, rows.Rows) : [],
-                _ => MapRenderer.RegimeLegend(regimes),
-            });
+            legend.Show(plot);
         }
 
         plot.Axes.SetLimits(x0, x1, y0, y1);

@@ -428,7 +428,6 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
         return (int)crossed.ExtractMostSignificantBits();
     }
 
-    /// <summary>Stops every live lane, its state taken from the step's end or its start.</summary>
     // The rare stops take their lambdas in methods of their own: a lambda in the stepping methods themselves put a
     // closure on the heap at every step (measured: 19 bytes per point and step, 380 KB per Lorenz-type point).
     [MethodImpl(MethodImplOptions.NoInlining)]
@@ -438,6 +437,7 @@ public sealed class FlowBlockAnalyzer : IBlockAnalyzer
     private void StopOutOfTime(double now, long taken) =>
         StopAll(j => tracks[j].StepFailed(tracks[j].State, "no time left to step", taken, now), endState: true, n);
 
+    /// <summary>Stops every live lane, its state taken from the step's end or its start.</summary>
     private void StopAll(Func<int, PointResult> result, bool endState, int count)
     {
         for (var j = 0; j < Width; j++)

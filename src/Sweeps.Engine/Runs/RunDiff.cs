@@ -55,7 +55,8 @@ public sealed record RunDiff(
 
         // Both runs' parts hold ascending point ranges: the same points are found by walking them side by side. The
         // parts of a continuation sweep hold whole lines, whose points interleave: those runs are read whole.
-        var lines = a.LoadSpec().Grid.Follow is not null;
+        var grid = a.LoadSpec().Grid;
+        var lines = grid.Follow is not null;
         await using var earlier = InOrder(a, lines, token).GetAsyncEnumerator(token);
         var (before, i, beforeRows) = ((RunTable?)null, 0, 0L);
         async Task<bool> NextBefore()
@@ -76,7 +77,7 @@ public sealed record RunDiff(
 
         var more = await NextBefore();
         var transitions = new Dictionary<(string, string), long>();
-        var changed = new ChangedPoints(a.LoadSpec().Grid.Axes.Count);
+        var changed = new ChangedPoints(grid.Axes.Count);
         var (regimeChanged, periodChanged, shifted, compared, largest, afterRows) = (0L, 0L, 0L, 0L, 0.0, 0L);
         await foreach (var after in InOrder(b, lines, token))
         {

@@ -226,13 +226,13 @@ public sealed class RunTable
         }
     }
 
+    /// <summary>A table of no rows (a run with no part written yet).</summary>
+    public static RunTable Empty(int axes) => new([], Enumerable.Range(0, axes).Select(_ => Array.Empty<double>()).ToArray(), [], [], [], null);
+
     /// <summary>
     /// The rows of several tables one after another (for drawing refinement levels together). Point indices
     /// keep their own tables' meaning; attractor labels and continuation columns are dropped.
     /// </summary>
-    /// <summary>A table of no rows (a run with no part written yet).</summary>
-    public static RunTable Empty(int axes) => new([], Enumerable.Range(0, axes).Select(_ => Array.Empty<double>()).ToArray(), [], [], [], null);
-
     public static RunTable Merge(IReadOnlyList<RunTable> tables)
     {
         T[] All<T>(Func<RunTable, T[]> column) => tables.SelectMany(column).ToArray();
