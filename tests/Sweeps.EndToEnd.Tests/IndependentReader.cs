@@ -6,7 +6,8 @@ namespace Sweeps.EndToEnd.Tests;
 
 /// <summary>
 /// Reads a run's part files with ParquetSharp (Apache parquet-cpp), a reader independent of the
-/// Parquet.Net writer Sweeps uses, so that the files are checked as any other tool would see them.
+/// writers Sweeps uses (its own for point parts, Parquet.Net for the others), so that the files are
+/// checked as any other tool would see them.
 /// </summary>
 internal sealed record IndependentReader(IReadOnlyList<string> Columns, IReadOnlyList<string> Types, IReadOnlyList<object?[]> Rows)
 {

@@ -3,8 +3,8 @@ using Parquet;
 namespace Sweeps.Engine.Runs;
 
 /// <summary>
-/// Writes a chunk's columns as one Parquet file (Parquet.Net column API, Snappy, one row group per
-/// chunk). The file is written under a temporary name in the same folder and renamed into place, so
+/// Writes a chunk's columns as one Parquet file (Snappy, one row group per chunk): point parts with
+/// Sweeps' own column writer, attractor parts with Parquet.Net. The file is written under a temporary name in the same folder and renamed into place, so
 /// readers and resumes never see a partial part. Nothing time-dependent goes into it: the same chunk
 /// always gives the same bytes.
 /// </summary>
@@ -31,48 +31,78 @@ public static class PartWriter
     }
 
     /// <summary>
-    /// Writes and deletes a one-row part of <paramref name="spec"/>'s schema in the temporary folder. The first
-    /// Parquet write of a process spends about a tenth of a second compiling the writer; a run does this on a
-    /// spare thread while it plans, so its first chunk does not wait for it.
+    /// Writes and deletes a one-row part of <paramref name="spec"/>'s schema (and an attractor part, where the run
+    /// writes them) in the temporary folder. The first write of a process spends time compiling or loading the writer
+    /// (a tenth of a second for Parquet.Net without ReadyToRun); a run does this on a spare thread while it plans, so
+    /// its first chunk does not wait for it.
     /// </summary>
     public static async Task WarmUpAsync(Specs.SweepSpec spec)
     {
         var n = spec.Model.Variables.Count;
-        var columns = ChunkColumns.For(spec, 1);
-        columns.Add(0, new double[spec.Grid.Axes.Count], Core.Analysis.PointResult.Stopped(Core.Analysis.Regime.Unresolved, n, new double[n], null, "warm-up"));
+        var branches = spec.Grid.Follow is not null;
+        var columns = ChunkColumns.For(spec, 1, branches);
+        var row = Core.Analysis.PointResult.Stopped(Core.Analysis.Regime.Unresolved, n, new double[n], null, "warm-up");
+        columns.Add(0, new double[spec.Grid.Axes.Count], row);
+        if (branches)
+        {
+            columns.AddBackward(row, hysteresis: false);
+        }
+
         var path = Path.Combine(Path.GetTempPath(), $"sweeps-warm-up-{Guid.NewGuid():N}.parquet");
         try
         {
             await WriteAsync(path, new PartSchema(spec), columns, new Dictionary<string, string>(), CancellationToken.None);
+            if (spec.GroupsAttractors)
+            {
+                var attractors = new AttractorColumns(n);
+                attractors.Add(0, Core.Attractors.AttractorGrouping.Single(row, spec.Analysis)[0]);
+                await WriteAsync(path + ".attractors", new AttractorSchema(spec), attractors, new Dictionary<string, string>(), CancellationToken.None);
+            }
         }
         finally
         {
             File.Delete(path);
+            File.Delete(path + ".attractors");
         }
     }
 
-    /// <summary>Writes a point part; its footer also carries the part's counts (<see cref="PartTally"/>).</summary>
+    /// <summary>
+    /// Writes a point part (with Sweeps' own column writer, <see cref="Columnar.ColumnarFile"/>: this is the hot path);
+    /// its footer also carries the part's counts (<see cref="PartTally"/>).
+    /// </summary>
     internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
     {
+        token.ThrowIfCancellationRequested();
         var withTally = metadata.ToDictionary();
         withTally[PartTally.Key] = PartTally.Of(columns).ToJson();
-        return WriteFileAsync(path, schema.Schema, withTally, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+        return CommitAsync(
+            path,
+            stream =>
+            {
+                PartFile.Write(stream, schema, columns, withTally);
+                return Task.CompletedTask;
+            });
     }
 
     internal static Task WriteAsync(string path, AttractorSchema schema, AttractorColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
-        WriteFileAsync(path, schema.Schema, metadata, writer => WriteRowGroupAsync(writer, schema, columns, token), token);
+        CommitAsync(
+            path,
+            async stream =>
+            {
+                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, Options(), false, token);
+                writer.CustomMetadata = metadata.ToDictionary();
+                await WriteRowGroupAsync(writer, schema, columns, token);
+            });
 
-    private static async Task WriteFileAsync(
-        string path, Parquet.Schema.ParquetSchema schema, IReadOnlyDictionary<string, string> metadata, Func<ParquetWriter, Task> write, CancellationToken token)
+    /// <summary>Writes a file under a temporary name in the same folder and renames it into place.</summary>
+    private static async Task CommitAsync(string path, Func<Stream, Task> write)
     {
         var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
         try
         {
             await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
             {
-                await using var writer = await ParquetWriter.CreateAsync(schema, stream, Options(), false, token);
-                writer.CustomMetadata = metadata.ToDictionary();
-                await write(writer);
+                await write(stream);
             }
 
             // At-least-once delivery can run a chunk twice; the first complete file wins, and both are identical.

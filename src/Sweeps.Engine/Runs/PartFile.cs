@@ -1,0 +1,52 @@
+using Sweeps.Engine.Runs.Columnar;
+
+namespace Sweeps.Engine.Runs;
+
+/// <summary>A chunk's columns as a point part, in the order and with the types of <see cref="PartSchema"/>.</summary>
+internal static class PartFile
+{
+    public static void Write(Stream stream, PartSchema schema, ChunkColumns columns, IEnumerable<KeyValuePair<string, string>> metadata)
+    {
+        var count = columns.Count;
+        using var file = new ColumnarFile(stream);
+        file.Int64Delta(schema.Point.Name, columns.Point.AsSpan(0, count));
+        for (var a = 0; a < schema.Axes.Count; a++)
+        {
+            file.Double(schema.Axes[a].Name, columns.Axis[a].AsSpan(0, count));
+        }
+
+        file.DictionaryStrings(schema.Regime.Name, columns.Regime.AsSpan(0, count));
+        file.Int32(schema.Period.Name, columns.Period.AsSpan(0, count));
+        file.Double(schema.PeriodTime.Name, columns.PeriodTime.AsSpan(0, count));
+        file.Int32(schema.Attractors.Name, columns.Attractors.AsSpan(0, count));
+        Doubles(file, schema.Lyapunov, columns.Lyapunov, count);
+        Doubles(file, schema.LyapunovError, columns.LyapunovError, count);
+        Doubles(file, schema.Final, columns.Final, count);
+        Doubles(file, schema.Indicators, columns.Indicators, count);
+        file.Strings(schema.Reason.Name, columns.Reason.AsSpan(0, count));
+        Samples(file, schema.Samples.Name, columns);
+        if (schema.HasBranches)
+        {
+            var backward = columns.Backward ?? throw new InvalidOperationException("A continuation sweep's chunk has no backward branch.");
+            file.Boolean(schema.Hysteresis.Name, columns.Hysteresis.AsSpan(0, count));
+            file.DictionaryStrings(schema.BackwardRegime.Name, backward.Regime.AsSpan(0, count));
+            file.Int32(schema.BackwardPeriod.Name, backward.Period.AsSpan(0, count));
+            file.Double(schema.BackwardLyapunov.Name, backward.Lyapunov[0].AsSpan(0, count));
+            Doubles(file, schema.BackwardFinal, backward.Final, count);
+            Samples(file, schema.BackwardSamples.Name, backward);
+        }
+
+        file.Finish(count, metadata, $"sweeps version {ProgramInfo.Version}");
+    }
+
+    private static void Doubles(ColumnarFile file, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count)
+    {
+        for (var i = 0; i < fields.Count; i++)
+        {
+            file.Double(fields[i].Name, values[i].AsSpan(0, count));
+        }
+    }
+
+    private static void Samples(ColumnarFile file, string name, ChunkColumns columns) =>
+        file.DoubleList(name, columns.SampleValues.WrittenSpan, columns.SampleDefinitions.WrittenSpan, columns.SampleRepetitions.WrittenSpan);
+}

@@ -1,0 +1,332 @@
+using CsCheck;
+using ParquetSharp;
+using Sweeps.Core.Analysis;
+using Sweeps.Core.Indicators;
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Runs;
+
+namespace Sweeps.Engine.Tests.Runs;
+
+/// <summary>
+/// Point parts from Sweeps' own column writer, read back by ParquetSharp (Apache parquet-cpp, independent of both
+/// Parquet writers used here) and compared bit for bit with the columns written — and with the file Parquet.Net's
+/// writer, which wrote parts before, makes of the same columns.
+/// </summary>
+public sealed class PartFileTests
+{
+    // A continuation sweep of a two-variable map with indicators: every kind of column a part can hold.
+    private const string Config = """
+        [model]
+        kind = "map"
+        variables = ["x", "y"]
+        parameters = ["a", "b"]
+        [model.equations]
+        x = "1 - a*x^2 + y"
+        y = "b*x"
+        [initial]
+        x = 0.1
+        y = 0.1
+        [parameters]
+        b = 0.3
+        [grid]
+        a = { from = 0.1, to = 1.4, steps = 20 }
+        follow = "a"
+        [analysis]
+        transient = 10
+        measure = 20
+        max_period = 8
+        samples = 3
+        indicators = true
+        """;
+
+    private static readonly string[] Reasons = ["transient", "escaped at step 12", "gleich ±∞ — ünïcode", ""];
+
+    private static readonly Gen<double> Values = Gen.Frequency(
+        (6, Gen.Double),
+        (1, Gen.OneOf(double.NaN, double.PositiveInfinity, double.NegativeInfinity, 0.0, -0.0, double.Epsilon, -double.MaxValue)));
+
+    // A row: regime, how many rows repeat it (runs exercise both halves of the level and index encoding), samples.
+    private static readonly Gen<(Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)> Rows =
+        Gen.Select(Gen.Enum<Regime>(), Gen.Int[1, 40], Gen.Int[0, 4], Values, Gen.Int[-3, Reasons.Length - 1], Gen.Bool);
+
+    [Fact]
+    public void Write_ReadsBackBitForBit_ThroughAnIndependentReader()
+    {
+        Gen.Select(Rows.Array[1, 60], Gen.Long.Array[1, 700]).Sample(
+            (rows, points) =>
+            {
+                var (schema, columns) = Build(rows, points);
+                var bytes = Write(schema, columns);
+                var table = ReadIndependently(bytes);
+                AssertSame(columns, table, backward: false);
+                AssertSame(columns.Backward!, table, backward: true);
+                Assert.Equal(columns.Hysteresis.Take(columns.Count).Cast<object?>(), table["hysteresis"]);
+            },
+            iter: 60);
+    }
+
+    [Fact]
+    public async Task Write_GivesTheTableParquetNetWrites_ForTheSameColumns()
+    {
+        var (schema, columns) = Build(Rows.Array[30].Single(), Gen.Long[0, 1000].Array[300].Single().Order().ToArray());
+        var ours = ReadIndependently(Write(schema, columns));
+        var theirs = ReadIndependently(await WriteWithParquetNet(schema, columns));
+
+        // Same columns, physical and logical types, repetition; same values bit for bit.
+        Assert.Equal(Describe(theirs.Descriptors), Describe(ours.Descriptors));
+        Assert.Equal(theirs.Keys, ours.Keys);
+        foreach (var name in theirs.Keys)
+        {
+            Assert.Equal(Bits(theirs[name]), Bits(ours[name]));
+        }
+    }
+
+    [Fact]
+    public async Task Write_ReadsBack_ThroughTheReaderSweepsUses()
+    {
+        var (schema, columns) = Build(Rows.Array[40].Single(), Gen.Long[0, long.MaxValue].Array[500].Single());
+        var path = Path.Combine(Path.GetTempPath(), $"sweeps-part-{Guid.NewGuid():N}.parquet");
+        try
+        {
+            await File.WriteAllBytesAsync(path, Write(schema, columns));
+            var back = await PartReader.ReadAsync(path, schema, CancellationToken.None);
+            Assert.Equal(columns.Count, back.Count);
+            Assert.Equal(columns.Point.Take(columns.Count), back.Point.Take(back.Count));
+            Assert.Equal(columns.Regime.Take(columns.Count), back.Regime.Take(back.Count));
+            Assert.Equal(columns.Reason.Take(columns.Count), back.Reason.Take(back.Count));
+            Assert.Equal(Bits(columns.Lyapunov[1].Take(columns.Count).Cast<object?>()), Bits(back.Lyapunov[1].Take(back.Count).Cast<object?>()));
+            Assert.Equal(columns.SampleValues.WrittenSpan.ToArray(), back.SampleValues.WrittenSpan.ToArray());
+            Assert.Equal(columns.SampleRepetitions.WrittenSpan.ToArray(), back.SampleRepetitions.WrittenSpan.ToArray());
+            Assert.Equal(columns.Backward!.Regime.Take(columns.Count), back.Backward!.Regime.Take(back.Count));
+            Assert.Equal(columns.Hysteresis.Take(columns.Count), back.Hysteresis.Take(back.Count));
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
+    [Fact]
+    public void Write_GivesTheSameBytes_EveryTime()
+    {
+        var (schema, columns) = Build(Rows.Array[20].Single(), Gen.Long.Array[200].Single());
+        Assert.Equal(Write(schema, columns), Write(schema, columns));
+    }
+
+    [Fact]
+    public void Statistics_LeaveNaNOut_AndGiveZeroItsSign()
+    {
+        // The format's rules for floating-point statistics (Apache Parquet format, parquet.thrift, Statistics and
+        // ColumnOrder): NaN takes no part in min_value/max_value; a zero minimum is written −0, a zero maximum +0.
+        var rows = Enumerable.Range(0, 6).Select(i => (Regime.Chaotic, 1, 1, 0.0, -1, false)).ToArray();
+        var (schema, columns) = Build(rows, [5, 6, 7, 8, 9, 10]);
+        double[] exponents = [double.NaN, 0.0, 2.5, double.NaN, -0.0, 1.0];
+        exponents.CopyTo(columns.Lyapunov[0], 0);
+        double[] positive = [3, 0.0, 2, 1, 4, 5];
+        positive.CopyTo(columns.Lyapunov[1], 0);
+        Array.Fill(columns.PeriodTime, double.NaN);
+        using var file = new Temporary(Write(schema, columns));
+        using var reader = new ParquetFileReader(file.Path);
+        using var group = reader.RowGroup(0);
+        var index = ColumnIndex(reader, "lyapunov_1");
+        using (var chunk = group.MetaData.GetColumnChunkMetaData(index))
+        {
+            var statistics = (Statistics<double>)chunk.Statistics!;
+            Assert.Equal(BitConverter.DoubleToInt64Bits(-0.0), BitConverter.DoubleToInt64Bits(statistics.Min));
+            Assert.Equal(2.5, statistics.Max);
+        }
+
+        using (var chunk = group.MetaData.GetColumnChunkMetaData(ColumnIndex(reader, "lyapunov_2")))
+        {
+            var statistics = (Statistics<double>)chunk.Statistics!;
+            Assert.Equal(BitConverter.DoubleToInt64Bits(-0.0), BitConverter.DoubleToInt64Bits(statistics.Min));
+            Assert.Equal(5.0, statistics.Max);
+        }
+
+        using (var chunk = group.MetaData.GetColumnChunkMetaData(ColumnIndex(reader, "point")))
+        {
+            var statistics = (Statistics<long>)chunk.Statistics!;
+            Assert.Equal((5L, 10L), (statistics.Min, statistics.Max));
+        }
+
+        using (var chunk = group.MetaData.GetColumnChunkMetaData(ColumnIndex(reader, "period_time")))
+        {
+            Assert.False(chunk.Statistics!.HasMinMax);
+        }
+    }
+
+    [Fact]
+    public void Write_CompressesAColumn_OnlyWhenItShrinks()
+    {
+        // 20 000 rows: pseudo-random exponents do not shrink under Snappy, a NaN-filled column and one period do.
+        var random = new Random(7);
+        var rows = Enumerable.Range(0, 20_000).Select(i => (Regime.Periodic, 1, 0, 0.0, -1, false)).ToArray();
+        var (schema, columns) = Build(rows, Enumerable.Range(0, 20_000).Select(i => (long)i).ToArray());
+        for (var i = 0; i < columns.Count; i++)
+        {
+            columns.Lyapunov[0][i] = random.NextDouble();
+            columns.PeriodTime[i] = double.NaN;
+            columns.Period[i] = 2;
+        }
+
+        using var file = new Temporary(Write(schema, columns));
+        using var reader = new ParquetFileReader(file.Path);
+        using var group = reader.RowGroup(0);
+        Compression Codec(string name)
+        {
+            using var chunk = group.MetaData.GetColumnChunkMetaData(ColumnIndex(reader, name));
+            return chunk.Compression;
+        }
+
+        Assert.Equal(Compression.Uncompressed, Codec("lyapunov_1"));
+        Assert.Equal(Compression.Snappy, Codec("period_time"));
+        Assert.Equal(Compression.Snappy, Codec("period"));
+        Assert.Equal(Compression.Snappy, Codec("regime"));
+    }
+
+    /// <summary>Columns of a continuation sweep's part, one row per entry of <paramref name="rows"/> (runs expanded) up to the points given.</summary>
+    private static (PartSchema Schema, ChunkColumns Columns) Build(
+        IReadOnlyList<(Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)> rows, long[] points)
+    {
+        var spec = SpecReader.Parse(Config, "test.toml");
+        var expanded = rows.SelectMany(r => Enumerable.Repeat(r, r.Run)).Take(points.Length).ToArray();
+        var columns = ChunkColumns.For(spec, expanded.Length, branches: true);
+        for (var i = 0; i < expanded.Length; i++)
+        {
+            var (regime, _, samples, value, reason, flag) = expanded[i];
+            var state = new[] { value, -i };
+            var result = new PointResult(
+                regime,
+                i % 7,
+                [value, i * 0.25],
+                [Math.Abs(value) / 3, 0],
+                double.NaN,
+                state,
+                [],
+                null,
+                reason >= 0 ? Reasons[reason] : null,
+                Enumerable.Range(0, samples * 2).Select(k => value + k).ToArray(),
+                i % 3 == 0 ? double.NaN : i,
+                i % 2 == 0 ? new IndicatorValues(value, i, -i) : null);
+            columns.Add(points[i], [value * 2], result, 1 + (i % 4));
+            columns.AddBackward(result with { Regime = flag ? Regime.Divergent : regime, Samples = result.Samples.Reverse().ToArray() }, flag);
+        }
+
+        return (new PartSchema(spec), columns);
+    }
+
+    private static byte[] Write(PartSchema schema, ChunkColumns columns)
+    {
+        using var stream = new MemoryStream();
+        PartFile.Write(stream, schema, columns, new Dictionary<string, string> { ["sweeps.test"] = "ü" });
+        return stream.ToArray();
+    }
+
+    private static async Task<byte[]> WriteWithParquetNet(PartSchema schema, ChunkColumns columns)
+    {
+        using var stream = new MemoryStream();
+        await using (var writer = await Parquet.ParquetWriter.CreateAsync(schema.Schema, stream, PartWriter.Options(), false))
+        {
+            await PartWriter.WriteRowGroupAsync(writer, schema, columns, CancellationToken.None);
+        }
+
+        return stream.ToArray();
+    }
+
+    private static void AssertSame(ChunkColumns columns, Table table, bool backward)
+    {
+        var n = columns.Count;
+        var prefix = backward ? "backward_" : "";
+        Assert.Equal(columns.Regime.Take(n), table[prefix + "regime"].Cast<string>());
+        Assert.Equal(columns.Period.Take(n).Cast<object?>(), table[prefix + "period"]);
+        Assert.Equal(Bits(columns.Lyapunov[0].Take(n).Cast<object?>()), Bits(table[prefix + "lyapunov_1"]));
+        Assert.Equal(Bits(columns.Final[1].Take(n).Cast<object?>()), Bits(table[prefix + "final_y"]));
+        var samples = new ChunkColumns.SampleCursor(columns);
+        var row = new List<double>();
+        var expected = Enumerable.Range(0, n).Select(_ =>
+        {
+            samples.Next(row);
+            return (object?)row.ToArray();
+        });
+        Assert.Equal(Bits(expected), Bits(table[prefix + "samples"]));
+        if (backward)
+        {
+            return;
+        }
+
+        Assert.Equal(columns.Point.Take(n).Cast<object?>(), table["point"]);
+        Assert.Equal(Bits(columns.Axis[0].Take(n).Cast<object?>()), Bits(table["a"]));
+        Assert.Equal(Bits(columns.PeriodTime.Take(n).Cast<object?>()), Bits(table["period_time"]));
+        Assert.Equal(columns.Attractors.Take(n).Cast<object?>(), table["attractors"]);
+        Assert.Equal(Bits(columns.Lyapunov[1].Take(n).Cast<object?>()), Bits(table["lyapunov_2"]));
+        Assert.Equal(Bits(columns.LyapunovError[0].Take(n).Cast<object?>()), Bits(table["lyapunov_error_1"]));
+        Assert.Equal(Bits(columns.Final[0].Take(n).Cast<object?>()), Bits(table["final_x"]));
+        Assert.Equal(Bits(columns.Indicators[0].Take(n).Cast<object?>()), Bits(table["zero_one_k"]));
+        Assert.Equal(Bits(columns.Indicators[2].Take(n).Cast<object?>()), Bits(table["lz_complexity"]));
+        Assert.Equal(columns.Reason.Take(n), table["reason"].Cast<string?>());
+    }
+
+    /// <summary>Values with doubles as their exact bits (NaN payloads and the sign of zero included).</summary>
+    private static IEnumerable<string> Bits(IEnumerable<object?> values) => values.Select(v => v switch
+    {
+        double d => BitConverter.DoubleToInt64Bits(d).ToString("x16"),
+        double[] list => string.Join(";", list.Select(d => BitConverter.DoubleToInt64Bits(d).ToString("x16"))),
+        null => "null",
+        _ => v.ToString()!,
+    });
+
+    private static int ColumnIndex(ParquetFileReader reader, string path)
+    {
+        var schema = reader.FileMetaData.Schema;
+        return Enumerable.Range(0, schema.NumColumns).Single(c => schema.Column(c).Path.ToDotString() == path);
+    }
+
+    private static Table ReadIndependently(byte[] bytes)
+    {
+        using var file = new Temporary(bytes);
+        using var reader = new ParquetFileReader(file.Path);
+        var schema = reader.FileMetaData.Schema;
+        using var group = reader.RowGroup(0);
+        var rows = (int)group.MetaData.NumRows;
+        var table = new Table();
+        for (var c = 0; c < schema.NumColumns; c++)
+        {
+            var descriptor = schema.Column(c);
+            var name = descriptor.Path.ToDotString().Split('.')[0];
+            using var column = group.Column(c);
+            table[name] = descriptor switch
+            {
+                { MaxRepetitionLevel: > 0 } => column.LogicalReader<double[]?>().ReadAll(rows),
+                { PhysicalType: PhysicalType.Int64 } => column.LogicalReader<long>().ReadAll(rows).Cast<object?>().ToArray(),
+                { PhysicalType: PhysicalType.Int32 } => column.LogicalReader<int>().ReadAll(rows).Cast<object?>().ToArray(),
+                { PhysicalType: PhysicalType.Boolean } => column.LogicalReader<bool>().ReadAll(rows).Cast<object?>().ToArray(),
+                { PhysicalType: PhysicalType.Double } => column.LogicalReader<double>().ReadAll(rows).Cast<object?>().ToArray(),
+                _ => column.LogicalReader<string?>().ReadAll(rows),
+            };
+            table.Descriptors.Add((descriptor.Path.ToDotString(), descriptor.PhysicalType, descriptor.LogicalType.ToString(), descriptor.MaxDefinitionLevel, descriptor.MaxRepetitionLevel));
+        }
+
+        return table;
+    }
+
+    private static IEnumerable<string> Describe(IEnumerable<(string Path, PhysicalType Type, string Logical, short Definition, short Repetition)> columns) =>
+        columns.Select(c => $"{c.Path} {c.Type} {c.Logical} def {c.Definition} rep {c.Repetition}");
+
+    /// <summary>Columns read back by name, in file order, with their descriptions.</summary>
+    private sealed class Table : Dictionary<string, object?[]>
+    {
+        public List<(string Path, PhysicalType Type, string Logical, short Definition, short Repetition)> Descriptors { get; } = [];
+    }
+
+    private sealed class Temporary : IDisposable
+    {
+        public Temporary(byte[] bytes)
+        {
+            File.WriteAllBytes(Path, bytes);
+        }
+
+        public string Path { get; } = System.IO.Path.Combine(System.IO.Path.GetTempPath(), $"sweeps-part-{Guid.NewGuid():N}.parquet");
+
+        public void Dispose() => File.Delete(Path);
+    }
+}
