@@ -7,9 +7,16 @@ public sealed class RunProgress
 {
     private readonly ConcurrentDictionary<string, Counters> runs = new(StringComparer.Ordinal);
 
-    public Counters For(string runDirectory) => runs.GetOrAdd(Path.TrimEndingDirectorySeparator(Path.GetFullPath(runDirectory)), _ => new Counters());
+    /// <summary>
+    /// Raised on the job's thread when a chunk of any run fails, with the run directory and "chunk N: what went wrong":
+    /// a worker, which has no progress display, prints it (a failed chunk is not retried until the run is submitted again).
+    /// </summary>
+    public event Action<string, string>? ChunkFailed;
 
-    public sealed class Counters
+    public Counters For(string runDirectory) =>
+        runs.GetOrAdd(Path.TrimEndingDirectorySeparator(Path.GetFullPath(runDirectory)), run => new Counters(failure => ChunkFailed?.Invoke(run, failure)));
+
+    public sealed class Counters(Action<string> report)
     {
         private long points;
         private long chunksDone;
@@ -37,7 +44,9 @@ public sealed class RunProgress
 
         public void ChunkFailed(long chunk, string message)
         {
-            Failures.Enqueue($"chunk {chunk}: {message}");
+            var failure = $"chunk {chunk}: {message}";
+            Failures.Enqueue(failure);
+            report(failure);
             Interlocked.Increment(ref chunksFailed);
             Signal();
         }

@@ -60,6 +60,33 @@ public sealed class EmbeddedQueueTests : IDisposable
     }
 
     [Fact]
+    public async Task FailedChunks_AreReported_WithTheirRunAndCause()
+    {
+        var run = CreateRun(chunkSize: 100);
+        using var host = QueueHost.Build(new QueueSettings(Workers: 1));
+        var progress = host.Services.GetRequiredService<RunProgress>();
+        var reported = new System.Collections.Concurrent.ConcurrentQueue<(string Run, string Failure)>();
+        progress.ChunkFailed += (directory, failure) => reported.Enqueue((directory, failure));
+        var counters = progress.For(run.FullPath);
+        ChunkQueue.Submit(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, run.MissingChunks());
+
+        // The manifest gone, no worker can open the run: every chunk fails, and each failure is reported once.
+        File.Delete(Path.Combine(run.FullPath, "run.json"));
+        await host.StartAsync();
+        var deadline = DateTime.UtcNow.AddMinutes(1);
+        while (counters.ChunksFailed < 3 && DateTime.UtcNow < deadline)
+        {
+            await Task.Delay(20);
+        }
+
+        await host.StopAsync();
+        Assert.Equal(3, counters.ChunksFailed);
+        Assert.Equal(["chunk 0", "chunk 1", "chunk 2"], reported.Select(r => r.Failure.Split(':')[0]).Order());
+        Assert.All(reported, r => Assert.Equal(run.FullPath, r.Run));
+        Assert.All(reported, r => Assert.Contains("run.json", r.Failure));
+    }
+
+    [Fact]
     public void Contexts_CompileEachRunOncePerProcess()
     {
         var run = CreateRun(chunkSize: 100);

@@ -1,4 +1,5 @@
 using System.CommandLine;
+using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Hosting;
 using Sweeps.Engine.Config;
 using Sweeps.Queue;
@@ -39,6 +40,14 @@ internal static class WorkerCommand
             return await QueueOptions.Guard(connection, async () =>
             {
                 using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)));
+                host.Services.GetRequiredService<RunProgress>().ChunkFailed += (run, failure) =>
+                {
+                    lock (cli.Error)
+                    {
+                        cli.Error.WriteLine($"failed: {run} {failure}");
+                        cli.Error.Flush();
+                    }
+                };
                 await host.StartAsync(CancellationToken.None);
                 cli.Output.WriteLine($"worker {Environment.MachineName}:{Environment.ProcessId} serving {ConnectionStrings.Mask(connection)} with {count} thread{(count == 1 ? "" : "s")}");
                 cli.Output.Flush();
