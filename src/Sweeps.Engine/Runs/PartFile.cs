@@ -48,5 +48,5 @@ internal static class PartFile
     }
 
     private static void Samples(ColumnarFile file, string name, ChunkColumns columns) =>
-        file.DoubleList(name, columns.SampleValues.WrittenSpan, columns.SampleDefinitions.WrittenSpan, columns.SampleRepetitions.WrittenSpan);
+        file.DoubleList(name, columns.SampleValues.WrittenSpan, columns.SampleCounts.AsSpan(0, columns.Count));
 }

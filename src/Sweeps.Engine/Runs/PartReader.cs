@@ -45,7 +45,7 @@ internal static class PartReader
             await group.ReadAsync(schema.Reason, reason, null, token);
             reason.CopyTo(columns.Reason, offset);
 
-            await ReadSamples(group, schema.SampleValue, columns, token);
+            await ReadSamples(group, schema.SampleValue, columns, offset, token);
             if (columns.Backward is { } backward)
             {
                 await Read(group, schema.Hysteresis, columns.Hysteresis.AsMemory(offset, count), token);
@@ -59,7 +59,7 @@ internal static class PartReader
                     await Read(group, schema.BackwardFinal[i], backward.Final[i].AsMemory(offset, count), token);
                 }
 
-                await ReadSamples(group, schema.BackwardSampleValue, backward, token);
+                await ReadSamples(group, schema.BackwardSampleValue, backward, offset, token);
             }
 
             offset += count;
@@ -70,7 +70,7 @@ internal static class PartReader
         return columns;
     }
 
-    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, ChunkColumns columns, CancellationToken token)
+    private static async Task ReadSamples(ParquetRowGroupReader group, DataField field, ChunkColumns columns, int offset, CancellationToken token)
     {
         var levels = (int)group.GetMetadata(field)!.MetaData!.NumValues;
         var values = new double[levels];
@@ -79,8 +79,7 @@ internal static class PartReader
         await group.ReadRawAsync<double>(field, values, definitions, repetitions, token);
         var used = definitions.Count(d => d == 2);
         columns.SampleValues.Write(values.AsSpan(0, used));
-        columns.SampleDefinitions.Write(definitions);
-        columns.SampleRepetitions.Write(repetitions);
+        Columnar.ListLevels.Rows(repetitions, definitions, columns.SampleCounts.AsSpan(offset));
     }
 
     private static async Task Read<T>(ParquetRowGroupReader group, DataField field, Memory<T> target, CancellationToken token)

@@ -153,13 +153,14 @@ public static class PartWriter
         }
     }
 
-    private static Task WriteSamples(ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token) =>
-        group.WriteAllPartsAsync<double>(
-            field,
-            columns.SampleValues.WrittenMemory,
-            columns.SampleDefinitions.WrittenMemory,
-            columns.SampleRepetitions.WrittenMemory,
-            token);
+    private static Task WriteSamples(ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token)
+    {
+        var counts = columns.SampleCounts.AsSpan(0, columns.Count);
+        var levels = Columnar.ListLevels.Count(counts);
+        var (repetitions, definitions) = (new int[levels], new int[levels]);
+        Columnar.ListLevels.Fill(counts, repetitions, definitions);
+        return group.WriteAllPartsAsync<double>(field, columns.SampleValues.WrittenMemory, definitions, repetitions, token);
+    }
 
     internal static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
     {

@@ -52,17 +52,23 @@ public sealed class PartFileTests
     [Fact]
     public void Write_ReadsBackBitForBit_ThroughAnIndependentReader()
     {
-        Gen.Select(Rows.Array[1, 60], Gen.Long.Array[1, 700]).Sample(
-            (rows, points) =>
-            {
-                var (schema, columns) = Build(rows, points);
-                var bytes = Write(schema, columns);
-                var table = ReadIndependently(bytes);
-                AssertSame(columns, table, backward: false);
-                AssertSame(columns.Backward!, table, backward: true);
-                Assert.Equal(columns.Hysteresis.Take(columns.Count).Cast<object?>(), table["hysteresis"]);
-            },
-            iter: 60);
+        Gen.Select(Rows.Array[1, 60], Gen.Long.Array[1, 700]).Sample(AssertRoundTrip, iter: 60);
+    }
+
+    [Fact]
+    public void Write_ReadsBackBitForBit_WhenTheLevelsSpanSeveralEncodingBlocks()
+    {
+        // Tens of thousands of list levels: the samples' levels are made and encoded 16 384 at a time.
+        Gen.Select(Rows.Array[900], Gen.Long.Array[20_000]).Sample(AssertRoundTrip, iter: 4);
+    }
+
+    private static void AssertRoundTrip((Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)[] rows, long[] points)
+    {
+        var (schema, columns) = Build(rows, points);
+        var table = ReadIndependently(Write(schema, columns));
+        AssertSame(columns, table, backward: false);
+        AssertSame(columns.Backward!, table, backward: true);
+        Assert.Equal(columns.Hysteresis.Take(columns.Count).Cast<object?>(), table["hysteresis"]);
     }
 
     [Fact]
@@ -96,7 +102,7 @@ public sealed class PartFileTests
             Assert.Equal(columns.Reason.Take(columns.Count), back.Reason.Take(back.Count));
             Assert.Equal(Bits(columns.Lyapunov[1].Take(columns.Count).Cast<object?>()), Bits(back.Lyapunov[1].Take(back.Count).Cast<object?>()));
             Assert.Equal(columns.SampleValues.WrittenSpan.ToArray(), back.SampleValues.WrittenSpan.ToArray());
-            Assert.Equal(columns.SampleRepetitions.WrittenSpan.ToArray(), back.SampleRepetitions.WrittenSpan.ToArray());
+            Assert.Equal(columns.SampleCounts.Take(columns.Count), back.SampleCounts.Take(back.Count));
             Assert.Equal(columns.Backward!.Regime.Take(columns.Count), back.Backward!.Regime.Take(back.Count));
             Assert.Equal(columns.Hysteresis.Take(columns.Count), back.Hysteresis.Take(back.Count));
         }
@@ -104,6 +110,24 @@ public sealed class PartFileTests
         {
             File.Delete(path);
         }
+    }
+
+    [Fact]
+    public void ListLevels_GiveBackTheRowCounts_TheyWereMadeFrom()
+    {
+        // Parquet's levels of a non-null list (Apache Parquet format, "Nested encoding"): one level per value, one per empty row.
+        Gen.Int[0, 5].Array[0, 300].Sample(counts =>
+        {
+            var levels = Sweeps.Engine.Runs.Columnar.ListLevels.Count(counts);
+            Assert.Equal(counts.Sum(c => Math.Max(1, c)), levels);
+            var (repetitions, definitions) = (new int[levels], new int[levels]);
+            Sweeps.Engine.Runs.Columnar.ListLevels.Fill(counts, repetitions, definitions);
+            Assert.Equal(counts.Length, repetitions.Count(r => r == 0));
+            Assert.Equal(counts.Sum(), definitions.Count(d => d == 2));
+            var back = new int[counts.Length];
+            Assert.Equal(counts.Length, Sweeps.Engine.Runs.Columnar.ListLevels.Rows(repetitions, definitions, back));
+            Assert.Equal(counts, back);
+        });
     }
 
     [Fact]

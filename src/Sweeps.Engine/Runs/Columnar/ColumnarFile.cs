@@ -178,22 +178,23 @@ internal sealed partial class ColumnarFile : IDisposable
     }
 
     /// <summary>
-    /// An optional list of required doubles (the three-level LIST layout), from its values and levels: repetition 0
-    /// starts a row; definition 0 is a null list, 1 an empty one, 2 a value.
+    /// An optional list of required doubles (the three-level LIST layout), never null, from its values and the number of
+    /// values in each row (0: an empty list).
     /// </summary>
-    public void DoubleList(string name, ReadOnlySpan<double> values, ReadOnlySpan<int> definitions, ReadOnlySpan<int> repetitions)
+    public void DoubleList(string name, ReadOnlySpan<double> values, ReadOnlySpan<int> counts)
     {
         schema.Add(new SchemaNode(name, null, Repetition.Optional, 1, Annotation.List));
         topLevel++;
         schema.Add(new SchemaNode("list", null, Repetition.Repeated, 1, Annotation.None));
         schema.Add(new SchemaNode("element", Physical.Double, Repetition.Required, 0, Annotation.None));
+        var levels = ListLevels.Count(counts);
         var bytes = MemoryMarshal.AsBytes(values);
-        body.Reset(LevelBound(repetitions.Length) + LevelBound(definitions.Length) + bytes.Length);
-        Levels(repetitions, 1);
-        Levels(definitions, 2);
+        body.Reset((2 * LevelBound(levels)) + bytes.Length);
+        ListLevels.Encode(counts, repetition: true, body);
+        ListLevels.Encode(counts, repetition: false, body);
         bytes.CopyTo(body.GetSpan(bytes.Length));
         body.Advance(bytes.Length);
-        Chunk([name, "list", "element"], Physical.Double, ValueEncoding.Plain, definitions.Length, body.WrittenSpan, ColumnStatistics.Of(values, definitions.Length - values.Length), levels: true);
+        Chunk([name, "list", "element"], Physical.Double, ValueEncoding.Plain, levels, body.WrittenSpan, ColumnStatistics.Of(values, levels - values.Length), levels: true);
     }
 
     public void Dispose()

@@ -11,7 +11,11 @@ internal static class HybridEncoder
 {
     private const int Group = 8;
 
-    public static void Encode(ReadOnlySpan<int> values, int width, IBufferWriter<byte> output)
+    /// <summary>
+    /// Encodes <paramref name="values"/>; unless <paramref name="final"/>, only as far as needs no padding (the values
+    /// left over, fewer than eight, go first in the next call). Returns how many values were encoded.
+    /// </summary>
+    public static int Encode(ReadOnlySpan<int> values, int width, IBufferWriter<byte> output, bool final = true)
     {
         var literalStart = 0;
         var i = 0;
@@ -41,7 +45,10 @@ internal static class HybridEncoder
             }
         }
 
-        Literals(values[literalStart..], width, output);
+        var tail = values.Length - literalStart;
+        var encoded = final ? tail : tail - (tail % Group);
+        Literals(values.Slice(literalStart, encoded), width, output);
+        return literalStart + encoded;
     }
 
     private static void Repeat(int value, int count, int width, IBufferWriter<byte> output)
