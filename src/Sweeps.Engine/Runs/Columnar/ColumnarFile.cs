@@ -15,8 +15,10 @@ namespace Sweeps.Engine.Runs.Columnar;
 /// Written here rather than through Parquet.Net because part files are on the hot path of every run: Parquet.Net spends
 /// 35–45 ms on a 125 000-row part (hashing every regime string for its dictionary, re-encoding the samples' levels,
 /// copying each column), a quarter of the time it takes to compute the part. This writer compresses fixed-width
-/// columns straight from the chunk's arrays, takes the regime dictionary from the few distinct strings, and encodes
-/// levels in one pass. Everything else (attractor parts, exports, diffs) and all reading stay with Parquet.Net.
+/// columns straight from the chunk's arrays and only when a probe shows they shrink, takes the regime dictionary from
+/// the few distinct strings, and makes and encodes the samples' levels a block at a time from per-row counts: a part
+/// written alone takes 8–13 ms against Parquet.Net's 13–30 ms (docs/performance.md). Everything else (attractor
+/// parts, exports, diffs) and all reading stay with Parquet.Net.
 /// </remarks>
 internal sealed partial class ColumnarFile : IDisposable
 {
