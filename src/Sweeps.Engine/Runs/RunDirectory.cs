@@ -14,12 +14,6 @@ namespace Sweeps.Engine.Runs;
 /// </summary>
 public sealed class RunDirectory
 {
-    private static readonly JsonSerializerOptions Json = new()
-    {
-        PropertyNamingPolicy = JsonNamingPolicy.SnakeCaseLower,
-        WriteIndented = true,
-    };
-
     private RunDirectory(string path, RunManifest manifest)
     {
         FullPath = Path.TrimEndingDirectorySeparator(Path.GetFullPath(path));
@@ -87,7 +81,7 @@ public sealed class RunDirectory
 
         try
         {
-            var manifest = JsonSerializer.Deserialize<RunManifest>(File.ReadAllText(manifestPath), Json)
+            var manifest = JsonSerializer.Deserialize(File.ReadAllText(manifestPath), ManifestJson.Default.RunManifest)
                 ?? throw new JsonException("empty manifest");
             if (manifest.Format != RunManifest.CurrentFormat)
             {
@@ -199,19 +193,20 @@ public sealed class RunDirectory
     {
         // A unique temporary name: with shared workers, several processes may close the same run.
         var temporary = $"{ManifestPath}.tmp-{Guid.NewGuid():N}";
-        File.WriteAllText(temporary, JsonSerializer.Serialize(Manifest, Json));
+        File.WriteAllText(temporary, JsonSerializer.Serialize(Manifest, ManifestJson.Default.RunManifest));
         File.Move(temporary, ManifestPath, overwrite: true);
     }
 
     /// <summary>
-    /// Serialises a throw-away manifest: the first serialisation of a process spends about 40 ms setting up its
-    /// converters, which <c>run</c> does on a spare thread while it plans, before it creates the run directory.
+    /// Serialises a throw-away manifest: the first serialisation of a process still spends some milliseconds setting
+    /// up (source-generated as the serialiser is), which <c>run</c> does on a spare thread while it plans, before it
+    /// creates the run directory.
     /// </summary>
     public static void WarmUp()
     {
         var spec = new System.Text.Json.Nodes.JsonObject { ["grid"] = new System.Text.Json.Nodes.JsonArray(0.5, "x") };
         var manifest = new RunManifest(RunManifest.CurrentFormat, ProgramInfo.Version, "", "", spec, [], "", 1, [1], 1, 1, RunManifest.Running, DateTimeOffset.UnixEpoch, null);
-        _ = JsonSerializer.Serialize(manifest, Json);
+        _ = JsonSerializer.Serialize(manifest, ManifestJson.Default.RunManifest);
     }
 
     private static string Short(string hash) => hash[..12];
