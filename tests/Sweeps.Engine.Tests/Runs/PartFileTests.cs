@@ -62,6 +62,20 @@ public sealed class PartFileTests
         Gen.Select(Rows.Array[900], Gen.Long.Array[20_000]).Sample(AssertRoundTrip, iter: 4);
     }
 
+    [Fact]
+    public async Task Write_ReadsBackARowLongerThanAnEncodingBlock()
+    {
+        // 20 000 values in one row, more than the 16 384 levels encoded at a time, between an empty row and a short one;
+        // read back independently and, levels and all, by the reader Sweeps uses (which counts rows by repetition level 0).
+        var rows = new[] { (Regime.Chaotic, 1, 0, 0.5, -1, false), (Regime.Chaotic, 1, 10_000, 0.25, -1, false), (Regime.Periodic, 1, 2, 1.0, -1, false) };
+        AssertRoundTrip(rows, [0, 1, 2]);
+        var (schema, columns) = Build(rows, [0, 1, 2]);
+        using var file = new Temporary(Write(schema, columns));
+        var back = await PartReader.ReadAsync(file.Path, schema, CancellationToken.None);
+        Assert.Equal([0, 20_000, 4], back.SampleCounts.Take(back.Count));
+        Assert.Equal([0, 20_000, 4], back.Backward!.SampleCounts.Take(back.Count));
+    }
+
     private static void AssertRoundTrip((Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)[] rows, long[] points)
     {
         var (schema, columns) = Build(rows, points);

@@ -58,7 +58,29 @@ internal static class ListLevels
             var filled = 0;
             foreach (var count in counts)
             {
-                for (var k = 0; k < Math.Max(1, count); k++)
+                // A row's levels at once (a row longer than the block, which no real sample count is, level by level).
+                var levels = Math.Max(1, count);
+                if (filled + levels > buffer.Length)
+                {
+                    var encoded = HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output, final: false);
+                    buffer.AsSpan(encoded, filled - encoded).CopyTo(buffer);
+                    filled -= encoded;
+                }
+
+                if (filled + levels <= buffer.Length)
+                {
+                    var row = buffer.AsSpan(filled, levels);
+                    row.Fill(repetition ? 1 : count == 0 ? 1 : 2);
+                    if (repetition)
+                    {
+                        row[0] = 0;
+                    }
+
+                    filled += levels;
+                    continue;
+                }
+
+                for (var k = 0; k < levels; k++)
                 {
                     if (filled == buffer.Length)
                     {
