@@ -84,7 +84,7 @@ internal sealed class ChunkColumns
 
     /// <summary>
     /// How many sample values each row has (0: an empty list). The list column's Parquet levels follow from these when
-    /// a part is written (<see cref="SampleLevels"/>); kept as counts, a chunk's columns take a third less memory, and
+    /// a part is written (<see cref="Columnar.ListLevels"/>); kept as counts, a chunk's columns take a third less memory, and
     /// fresh memory is what the first chunks of a run pay for, page by page.
     /// </summary>
     public int[] SampleCounts { get; }

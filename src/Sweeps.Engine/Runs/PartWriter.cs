@@ -4,9 +4,9 @@ namespace Sweeps.Engine.Runs;
 
 /// <summary>
 /// Writes a chunk's columns as one Parquet file (Snappy, one row group per chunk): point parts with
-/// Sweeps' own column writer, attractor parts with Parquet.Net. The file is written under a temporary name in the same folder and renamed into place, so
-/// readers and resumes never see a partial part. Nothing time-dependent goes into it: the same chunk
-/// always gives the same bytes.
+/// Sweeps' own column writer, attractor parts with Parquet.Net. The file is written under a temporary
+/// name in the same folder and renamed into place, so readers and resumes never see a partial part.
+/// Nothing time-dependent goes into it: the same chunk always gives the same bytes.
 /// </summary>
 public static class PartWriter
 {

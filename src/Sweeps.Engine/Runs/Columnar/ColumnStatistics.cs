@@ -1,3 +1,6 @@
+using System.Numerics;
+using System.Runtime.InteropServices;
+
 namespace Sweeps.Engine.Runs.Columnar;
 
 /// <summary>
@@ -8,38 +11,23 @@ namespace Sweeps.Engine.Runs.Columnar;
 /// </summary>
 internal sealed record ColumnStatistics(long Nulls, byte[]? Min, byte[]? Max)
 {
-    public static ColumnStatistics Of(ReadOnlySpan<long> values)
+    /// <summary>An integer column's range.</summary>
+    public static ColumnStatistics Of<T>(ReadOnlySpan<T> values)
+        where T : unmanaged, IBinaryInteger<T>, IMinMaxValue<T>
     {
         if (values.IsEmpty)
         {
             return new ColumnStatistics(0, null, null);
         }
 
-        var (min, max) = (long.MaxValue, long.MinValue);
+        var (min, max) = (T.MaxValue, T.MinValue);
         foreach (var value in values)
         {
-            min = Math.Min(min, value);
-            max = Math.Max(max, value);
+            min = T.Min(min, value);
+            max = T.Max(max, value);
         }
 
-        return new ColumnStatistics(0, BitConverter.GetBytes(min), BitConverter.GetBytes(max));
-    }
-
-    public static ColumnStatistics Of(ReadOnlySpan<int> values)
-    {
-        if (values.IsEmpty)
-        {
-            return new ColumnStatistics(0, null, null);
-        }
-
-        var (min, max) = (int.MaxValue, int.MinValue);
-        foreach (var value in values)
-        {
-            min = Math.Min(min, value);
-            max = Math.Max(max, value);
-        }
-
-        return new ColumnStatistics(0, BitConverter.GetBytes(min), BitConverter.GetBytes(max));
+        return new ColumnStatistics(0, Bytes(min), Bytes(max));
     }
 
     public static ColumnStatistics Of(ReadOnlySpan<double> values, long nulls)
@@ -69,7 +57,7 @@ internal sealed record ColumnStatistics(long Nulls, byte[]? Min, byte[]? Max)
 
         min = min == 0 ? -0.0 : min;
         max = max == 0 ? 0.0 : max;
-        return new ColumnStatistics(nulls, BitConverter.GetBytes(min), BitConverter.GetBytes(max));
+        return new ColumnStatistics(nulls, Bytes(min), Bytes(max));
     }
 
     public static ColumnStatistics Of(ReadOnlySpan<bool> values)
@@ -100,6 +88,10 @@ internal sealed record ColumnStatistics(long Nulls, byte[]? Min, byte[]? Max)
 
         return range.Result() with { Nulls = nulls };
     }
+
+    /// <summary>A value's little-endian bytes, as the statistics hold them.</summary>
+    private static byte[] Bytes<T>(T value)
+        where T : unmanaged => MemoryMarshal.AsBytes(new ReadOnlySpan<T>(in value)).ToArray();
 
     /// <summary>Accumulates the range and null count of a string column one value at a time.</summary>
     public sealed class Strings

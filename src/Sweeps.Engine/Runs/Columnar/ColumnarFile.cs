@@ -192,8 +192,12 @@ internal sealed partial class ColumnarFile : IDisposable
         var levels = ListLevels.Count(counts);
         var bytes = MemoryMarshal.AsBytes(values);
         body.Reset((2 * LevelBound(levels)) + bytes.Length);
+        var at = BeginLength();
         ListLevels.Encode(counts, repetition: true, body);
+        EndLength(at);
+        at = BeginLength();
         ListLevels.Encode(counts, repetition: false, body);
+        EndLength(at);
         bytes.CopyTo(body.GetSpan(bytes.Length));
         body.Advance(bytes.Length);
         Chunk([name, "list", "element"], Physical.Double, ValueEncoding.Plain, levels, body.WrittenSpan, ColumnStatistics.Of(values, levels - values.Length), levels: true);
@@ -221,12 +225,21 @@ internal sealed partial class ColumnarFile : IDisposable
     /// <summary>Levels of a version-1 data page: their byte length, then the hybrid encoding.</summary>
     private void Levels(ReadOnlySpan<int> levels, int width)
     {
+        var at = BeginLength();
+        HybridEncoder.Encode(levels, width, body);
+        EndLength(at);
+    }
+
+    /// <summary>Leaves room for the byte length of what follows in the page (levels); returns where it goes.</summary>
+    private int BeginLength()
+    {
         var at = body.WrittenCount;
         body.GetSpan(4);
         body.Advance(4);
-        HybridEncoder.Encode(levels, width, body);
-        body.SetInt32(at, body.WrittenCount - at - 4);
+        return at;
     }
+
+    private void EndLength(int at) => body.SetInt32(at, body.WrittenCount - at - 4);
 
     private void PlainBinary(ReadOnlySpan<byte> value)
     {

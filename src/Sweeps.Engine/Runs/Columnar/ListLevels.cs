@@ -26,70 +26,52 @@ internal static class ListLevels
         var at = 0;
         foreach (var count in counts)
         {
-            if (count == 0)
-            {
-                repetitions[at] = 0;
-                definitions[at++] = 1;
-                continue;
-            }
-
-            repetitions.Slice(at, count).Fill(1);
-            repetitions[at] = 0;
-            definitions.Slice(at, count).Fill(2);
-            at += count;
+            var levels = Math.Max(1, count);
+            Row(repetitions.Slice(at, levels), count, repetition: true, first: true);
+            Row(definitions.Slice(at, levels), count, repetition: false, first: true);
+            at += levels;
         }
     }
 
     /// <summary>
-    /// Writes the repetition (or definition) levels of the rows as a version-1 data page holds them — their byte length,
-    /// then the hybrid encoding — made and encoded a block at a time: a chunk's levels are millions of integers, and a
-    /// page of memory touched for the first time costs more than encoding it.
+    /// Hybrid-encodes the repetition (or definition) levels of the rows, made a block at a time: a chunk's levels are
+    /// millions of integers, and a page of memory touched for the first time costs more than encoding it.
     /// </summary>
-    public static void Encode(ReadOnlySpan<int> counts, bool repetition, PooledBuffer output)
+    public static void Encode(ReadOnlySpan<int> counts, bool repetition, IBufferWriter<byte> output)
     {
         const int Block = 1 << 14;
         var width = repetition ? 1 : 2;
-        var at = output.WrittenCount;
-        output.GetSpan(4);
-        output.Advance(4);
         var buffer = ArrayPool<int>.Shared.Rent(Block);
         try
         {
             var filled = 0;
+            void Flush()
+            {
+                var encoded = HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output, final: false);
+                buffer.AsSpan(encoded, filled - encoded).CopyTo(buffer);
+                filled -= encoded;
+            }
+
             foreach (var count in counts)
             {
-                // A row's levels at once (a row longer than the block, which no real sample count is, level by level).
+                // A row's levels at once when the block has room for them (any real sample count), else in pieces.
                 var levels = Math.Max(1, count);
                 if (filled + levels > buffer.Length)
                 {
-                    var encoded = HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output, final: false);
-                    buffer.AsSpan(encoded, filled - encoded).CopyTo(buffer);
-                    filled -= encoded;
+                    Flush();
                 }
 
-                if (filled + levels <= buffer.Length)
-                {
-                    var row = buffer.AsSpan(filled, levels);
-                    row.Fill(repetition ? 1 : count == 0 ? 1 : 2);
-                    if (repetition)
-                    {
-                        row[0] = 0;
-                    }
-
-                    filled += levels;
-                    continue;
-                }
-
-                for (var k = 0; k < levels; k++)
+                for (var done = 0; done < levels;)
                 {
                     if (filled == buffer.Length)
                     {
-                        var encoded = HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output, final: false);
-                        buffer.AsSpan(encoded, filled - encoded).CopyTo(buffer);
-                        filled -= encoded;
+                        Flush();
                     }
 
-                    buffer[filled++] = repetition ? (k == 0 ? 0 : 1) : (count == 0 ? 1 : 2);
+                    var piece = Math.Min(levels - done, buffer.Length - filled);
+                    Row(buffer.AsSpan(filled, piece), count, repetition, first: done == 0);
+                    filled += piece;
+                    done += piece;
                 }
             }
 
@@ -99,8 +81,6 @@ internal static class ListLevels
         {
             ArrayPool<int>.Shared.Return(buffer);
         }
-
-        output.SetInt32(at, output.WrittenCount - at - 4);
     }
 
     /// <summary>The number of values in each row of levels read back; returns the number of rows.</summary>
@@ -121,5 +101,15 @@ internal static class ListLevels
         }
 
         return row + 1;
+    }
+
+    /// <summary>Levels of (part of) a row of <paramref name="count"/> values; <paramref name="first"/>: the part that starts the row.</summary>
+    private static void Row(Span<int> levels, int count, bool repetition, bool first)
+    {
+        levels.Fill(repetition ? 1 : count == 0 ? 1 : 2);
+        if (repetition && first)
+        {
+            levels[0] = 0;
+        }
     }
 }
