@@ -27,7 +27,9 @@ internal sealed class ChunkColumns
         Lyapunov = Columns(dimension, capacity);
         LyapunovError = Columns(dimension, capacity);
         Final = Columns(dimension, capacity);
-        Reason = new string?[capacity];
+        ReasonBytes = new ArrayBufferWriter<byte>(capacity);
+        ReasonStart = new int[capacity];
+        ReasonLength = new int[capacity];
     }
 
     /// <summary>Columns for <paramref name="capacity"/> rows of <paramref name="spec"/>'s parts (with the backward branch when asked).</summary>
@@ -44,6 +46,7 @@ internal sealed class ChunkColumns
     {
         Count = 0;
         SampleValues.ResetWrittenCount();
+        ReasonBytes.ResetWrittenCount();
         Backward?.Clear();
     }
 
@@ -71,7 +74,51 @@ internal sealed class ChunkColumns
     /// <summary>K, permutation entropy, Lempel–Ziv complexity (empty unless indicators are on).</summary>
     public double[][] Indicators { get; }
 
-    public string?[] Reason { get; }
+    /// <summary>
+    /// The reasons' text, UTF-8, one row after the other (<see cref="ReasonStart"/> and <see cref="ReasonLength"/> say
+    /// where each is; a length of −1 is no reason). Kept as bytes rather than strings: a reason names its point's numbers,
+    /// so each is a new string, and strings held by a chunk's columns outlive the collector's youngest generation —
+    /// promoting its memory instead of reusing it, so that every later allocation of the sweep touched fresh pages
+    /// (docs/performance.md, eighth session).
+    /// </summary>
+    public ArrayBufferWriter<byte> ReasonBytes { get; }
+
+    /// <summary>Where each row's reason starts in <see cref="ReasonBytes"/>.</summary>
+    public int[] ReasonStart { get; }
+
+    /// <summary>Each row's reason's length in bytes, −1 for none.</summary>
+    public int[] ReasonLength { get; }
+
+    /// <summary>The reason of <paramref name="row"/>, or null.</summary>
+    public string? Reason(int row) =>
+        ReasonLength[row] < 0 ? null : System.Text.Encoding.UTF8.GetString(ReasonBytes.WrittenSpan.Slice(ReasonStart[row], ReasonLength[row]));
+
+    /// <summary>The reasons of the first <paramref name="count"/> rows as strings.</summary>
+    public string?[] Reasons(int count)
+    {
+        var reasons = new string?[count];
+        for (var row = 0; row < count; row++)
+        {
+            reasons[row] = Reason(row);
+        }
+
+        return reasons;
+    }
+
+    /// <summary>Sets the reason of <paramref name="row"/>; rows are set in order (each reason's bytes follow the last).</summary>
+    public void SetReason(int row, string? reason)
+    {
+        ReasonStart[row] = ReasonBytes.WrittenCount;
+        if (reason is null)
+        {
+            ReasonLength[row] = -1;
+            return;
+        }
+
+        var length = System.Text.Encoding.UTF8.GetBytes(reason, ReasonBytes.GetSpan(System.Text.Encoding.UTF8.GetMaxByteCount(reason.Length)));
+        ReasonBytes.Advance(length);
+        ReasonLength[row] = length;
+    }
 
     /// <summary>Continuation sweeps: whether the two branches differ at the row's point (empty otherwise).</summary>
     public bool[] Hysteresis { get; }
@@ -118,7 +165,7 @@ internal sealed class ChunkColumns
             Indicators[2][row] = values?.LempelZiv ?? double.NaN;
         }
 
-        Reason[row] = result.Reason;
+        SetReason(row, result.Reason);
         SampleCounts[row] = result.Samples.Length;
         SampleValues.Write(result.Samples);
     }

@@ -23,7 +23,7 @@ internal static class PartFile
         Doubles(file, schema.LyapunovError, columns.LyapunovError, count);
         Doubles(file, schema.Final, columns.Final, count);
         Doubles(file, schema.Indicators, columns.Indicators, count);
-        file.Strings(schema.Reason.Name, columns.Reason.AsSpan(0, count));
+        file.Strings(schema.Reason.Name, columns.ReasonBytes.WrittenSpan, columns.ReasonStart.AsSpan(0, count), columns.ReasonLength.AsSpan(0, count));
         Samples(file, schema.Samples.Name, columns);
         if (schema.HasBranches)
         {

@@ -43,7 +43,10 @@ internal static class PartReader
 
             var reason = new string[count];
             await group.ReadAsync(schema.Reason, reason, null, token);
-            reason.CopyTo(columns.Reason, offset);
+            for (var i = 0; i < count; i++)
+            {
+                columns.SetReason(offset + i, reason[i]);
+            }
 
             await ReadSamples(group, schema.SampleValue, columns, offset, token);
             if (columns.Backward is { } backward)

@@ -140,7 +140,7 @@ public static class PartWriter
         await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
         await WriteAll(group, schema.Final, columns.Final, count, token);
         await WriteAll(group, schema.Indicators, columns.Indicators, count, token);
-        await group.WriteAsync(schema.Reason, new ArraySegment<string>(columns.Reason!, 0, count));
+        await group.WriteAsync(schema.Reason, columns.Reasons(count)!);
         await WriteSamples(group, schema.SampleValue, columns, token);
         if (schema.HasBranches && columns.Backward is { } backward)
         {

@@ -80,7 +80,7 @@ public static class RunExport
                     line.Append(',').Append(Number(column[row]));
                 }
 
-                line.Append(',').Append(Quote(columns.Reason[row])).Append(',');
+                line.Append(',').Append(Quote(columns.Reason(row))).Append(',');
                 samples.AppendRow(line);
                 if (columns.Backward is { } backward)
                 {

@@ -80,6 +80,8 @@ public sealed class PartFileTests
     {
         var (schema, columns) = Build(rows, points);
         var table = ReadIndependently(Write(schema, columns));
+        var reasons = rows.SelectMany(r => Enumerable.Repeat(r.Reason >= 0 ? Reasons[r.Reason] : null, r.Run)).Take(points.Length);
+        Assert.Equal(reasons, table["reason"].Cast<string?>());
         AssertSame(columns, table, backward: false);
         AssertSame(columns.Backward!, table, backward: true);
         Assert.Equal(columns.Hysteresis.Take(columns.Count).Cast<object?>(), table["hysteresis"]);
@@ -113,7 +115,7 @@ public sealed class PartFileTests
             Assert.Equal(columns.Count, back.Count);
             Assert.Equal(columns.Point.Take(columns.Count), back.Point.Take(back.Count));
             Assert.Equal(columns.Regime.Take(columns.Count), back.Regime.Take(back.Count));
-            Assert.Equal(columns.Reason.Take(columns.Count), back.Reason.Take(back.Count));
+            Assert.Equal(columns.Reasons(columns.Count), back.Reasons(back.Count));
             Assert.Equal(Bits(columns.Lyapunov[1].Take(columns.Count).Cast<object?>()), Bits(back.Lyapunov[1].Take(back.Count).Cast<object?>()));
             Assert.Equal(columns.SampleValues.WrittenSpan.ToArray(), back.SampleValues.WrittenSpan.ToArray());
             Assert.Equal(columns.SampleCounts.Take(columns.Count), back.SampleCounts.Take(back.Count));
@@ -124,6 +126,31 @@ public sealed class PartFileTests
         {
             File.Delete(path);
         }
+    }
+
+    [Fact]
+    public void Write_KeepsNoReasonOfEarlierRows_WhenColumnsAreReused()
+    {
+        // A run reuses a chunk's columns for its next chunk; the reasons' text is kept as bytes, which must start afresh.
+        var spec = SpecReader.Parse(Config, "test.toml");
+        var columns = ChunkColumns.For(spec, 3, branches: true);
+        void Add(long point, string? reason)
+        {
+            var result = reason is null ? PointResult.Stopped(Regime.Divergent, 2, [0, 0], 3, "x") with { Reason = null } : PointResult.Stopped(Regime.Unresolved, 2, [0, 0], null, reason);
+            columns.Add(point, [0.5], result);
+            columns.AddBackward(result, hysteresis: false);
+        }
+
+        Add(0, "a long reason of a row of the chunk before");
+        Add(1, null);
+        columns.Clear();
+        Add(7, "gleich ±∞ — ünïcode");
+        Add(8, null);
+        Add(9, "");
+        string?[] expected = ["gleich ±∞ — ünïcode", null, ""];
+        Assert.Equal(expected, columns.Reasons(3));
+        Assert.Equal(System.Text.Encoding.UTF8.GetByteCount(expected[0]!), columns.ReasonBytes.WrittenCount);
+        Assert.Equal(expected, ReadIndependently(Write(new PartSchema(spec), columns))["reason"].Cast<string?>());
     }
 
     [Fact]
@@ -301,7 +328,7 @@ public sealed class PartFileTests
         Assert.Equal(Bits(columns.Final[0].Take(n).Cast<object?>()), Bits(table["final_x"]));
         Assert.Equal(Bits(columns.Indicators[0].Take(n).Cast<object?>()), Bits(table["zero_one_k"]));
         Assert.Equal(Bits(columns.Indicators[2].Take(n).Cast<object?>()), Bits(table["lz_complexity"]));
-        Assert.Equal(columns.Reason.Take(n), table["reason"].Cast<string?>());
+        Assert.Equal(columns.Reasons(n), table["reason"].Cast<string?>());
     }
 
     /// <summary>Values with doubles as their exact bits (NaN payloads and the sign of zero included).</summary>

@@ -121,7 +121,7 @@ internal sealed partial class ColumnarFile
     /// <summary>One page: its header, then its body, compressed with the chunk's codec. Levels of a data page sit inside the body.</summary>
     private void Page(PageKind kind, ValueEncoding encoding, int values, ReadOnlySpan<byte> page)
     {
-        var compressed = chunkCodec == Codec.Snappy ? System.Buffers.ArrayPool<byte>.Shared.Rent(Snappy.GetMaxCompressedLength(page.Length)) : null;
+        var compressed = chunkCodec == Codec.Snappy ? ScratchPools.Bytes.Rent(Snappy.GetMaxCompressedLength(page.Length)) : null;
         try
         {
             var length = compressed is null ? page.Length : Snappy.Compress(page, compressed);
@@ -158,7 +158,7 @@ internal sealed partial class ColumnarFile
         {
             if (compressed is not null)
             {
-                System.Buffers.ArrayPool<byte>.Shared.Return(compressed);
+                ScratchPools.Bytes.Return(compressed);
             }
         }
     }

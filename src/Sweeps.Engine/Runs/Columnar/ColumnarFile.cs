@@ -83,8 +83,8 @@ internal sealed partial class ColumnarFile : IDisposable
     {
         Leaf(name, Physical.ByteArray, Repetition.Optional, Annotation.String);
         var entries = new List<string>();
-        var indices = ArrayPool<int>.Shared.Rent(values.Length);
-        var definitions = ArrayPool<int>.Shared.Rent(values.Length);
+        var indices = ScratchPools.Ints.Rent(values.Length);
+        var definitions = ScratchPools.Ints.Rent(values.Length);
         try
         {
             var present = 0;
@@ -137,45 +137,50 @@ internal sealed partial class ColumnarFile : IDisposable
         }
         finally
         {
-            ArrayPool<int>.Shared.Return(indices);
-            ArrayPool<int>.Shared.Return(definitions);
+            ScratchPools.Ints.Return(indices);
+            ScratchPools.Ints.Return(definitions);
         }
     }
 
-    /// <summary>An optional string column written plainly (mostly nulls, values free text).</summary>
-    public void Strings(string name, ReadOnlySpan<string?> values)
+    /// <summary>
+    /// An optional string column written plainly (mostly nulls, values free text), from the values' UTF-8 bytes: row i is
+    /// <paramref name="text"/>[<paramref name="starts"/>[i] …] of <paramref name="lengths"/>[i] bytes, null where that is −1.
+    /// </summary>
+    public void Strings(string name, ReadOnlySpan<byte> text, ReadOnlySpan<int> starts, ReadOnlySpan<int> lengths)
     {
         Leaf(name, Physical.ByteArray, Repetition.Optional, Annotation.String);
-        var definitions = ArrayPool<int>.Shared.Rent(values.Length);
+        var definitions = ScratchPools.Ints.Rent(lengths.Length);
         try
         {
-            for (var i = 0; i < values.Length; i++)
+            var size = 0;
+            for (var i = 0; i < lengths.Length; i++)
             {
-                definitions[i] = values[i] is null ? 0 : 1;
+                definitions[i] = lengths[i] < 0 ? 0 : 1;
+                size += lengths[i] < 0 ? 0 : 4 + lengths[i];
             }
 
-            body.Clear();
-            Levels(definitions.AsSpan(0, values.Length), 1);
+            // Sized at once: a page body grown by doubling is fresh memory at every step.
+            body.Reset(LevelBound(lengths.Length) + size);
+            Levels(definitions.AsSpan(0, lengths.Length), 1);
             var statistics = new ColumnStatistics.Strings();
-            foreach (var value in values)
+            for (var i = 0; i < lengths.Length; i++)
             {
-                if (value is not null)
-                {
-                    var start = body.WrittenCount + 4;
-                    PlainBinary(value);
-                    statistics.Add(body.WrittenSpan[start..]);
-                }
-                else
+                if (lengths[i] < 0)
                 {
                     statistics.AddNull();
+                    continue;
                 }
+
+                var value = text.Slice(starts[i], lengths[i]);
+                PlainBinary(value);
+                statistics.Add(value);
             }
 
-            Chunk([name], Physical.ByteArray, ValueEncoding.Plain, values.Length, body.WrittenSpan, statistics.Result(), levels: true);
+            Chunk([name], Physical.ByteArray, ValueEncoding.Plain, lengths.Length, body.WrittenSpan, statistics.Result(), levels: true);
         }
         finally
         {
-            ArrayPool<int>.Shared.Return(definitions);
+            ScratchPools.Ints.Return(definitions);
         }
     }
 

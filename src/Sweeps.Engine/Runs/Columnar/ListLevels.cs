@@ -41,7 +41,7 @@ internal static class ListLevels
     {
         const int Block = 1 << 14;
         var width = repetition ? 1 : 2;
-        var buffer = ArrayPool<int>.Shared.Rent(Block);
+        var buffer = ScratchPools.Ints.Rent(Block);
         try
         {
             var filled = 0;
@@ -79,7 +79,7 @@ internal static class ListLevels
         }
         finally
         {
-            ArrayPool<int>.Shared.Return(buffer);
+            ScratchPools.Ints.Return(buffer);
         }
     }
 

@@ -13,7 +13,7 @@ internal sealed class PooledBuffer : IBufferWriter<byte>, IDisposable
 
     public PooledBuffer(int capacity = 4096)
     {
-        array = ArrayPool<byte>.Shared.Rent(capacity);
+        array = ScratchPools.Bytes.Rent(capacity);
     }
 
     public ReadOnlySpan<byte> WrittenSpan => array.AsSpan(0, written);
@@ -28,8 +28,8 @@ internal sealed class PooledBuffer : IBufferWriter<byte>, IDisposable
         written = 0;
         if (capacity > array.Length)
         {
-            ArrayPool<byte>.Shared.Return(array);
-            array = ArrayPool<byte>.Shared.Rent(capacity);
+            ScratchPools.Bytes.Return(array);
+            array = ScratchPools.Bytes.Rent(capacity);
         }
     }
 
@@ -52,7 +52,7 @@ internal sealed class PooledBuffer : IBufferWriter<byte>, IDisposable
 
     public void Dispose()
     {
-        ArrayPool<byte>.Shared.Return(array);
+        ScratchPools.Bytes.Return(array);
         array = [];
     }
 
@@ -64,9 +64,9 @@ internal sealed class PooledBuffer : IBufferWriter<byte>, IDisposable
             return;
         }
 
-        var larger = ArrayPool<byte>.Shared.Rent(Math.Max(needed, array.Length * 2));
+        var larger = ScratchPools.Bytes.Rent(Math.Max(needed, array.Length * 2));
         array.AsSpan(0, written).CopyTo(larger);
-        ArrayPool<byte>.Shared.Return(array);
+        ScratchPools.Bytes.Return(array);
         array = larger;
     }
 }
