@@ -65,8 +65,8 @@ internal static class RunCommand
 
     private static async Task WarmUpWriterAsync(SweepSpec spec)
     {
-        // The manifest's serialiser first (the run directory needs it next), then the Parquet writer.
-        RunDirectory.WarmUp();
+        // The spec's fingerprint and the manifest's serialiser first (the run directory needs them next), then the Parquet writer.
+        RunDirectory.WarmUp(spec);
         try
         {
             await PartWriter.WarmUpAsync(spec);

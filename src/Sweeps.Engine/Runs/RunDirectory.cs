@@ -198,14 +198,16 @@ public sealed class RunDirectory
     }
 
     /// <summary>
-    /// Serialises a throw-away manifest: the first serialisation of a process still spends some milliseconds setting
-    /// up (source-generated as the serialiser is), which <c>run</c> does on a spare thread while it plans, before it
+    /// Fingerprints <paramref name="spec"/> and serialises a throw-away manifest: the first hash of a process loads the
+    /// system's cryptography library, and the first serialisation still spends some milliseconds setting up
+    /// (source-generated as the serialiser is) — which <c>run</c> does on a spare thread while it plans, before it
     /// creates the run directory.
     /// </summary>
-    public static void WarmUp()
+    public static void WarmUp(SweepSpec spec)
     {
-        var spec = new System.Text.Json.Nodes.JsonObject { ["grid"] = new System.Text.Json.Nodes.JsonArray(0.5, "x") };
-        var manifest = new RunManifest(RunManifest.CurrentFormat, ProgramInfo.Version, "", "", spec, [], "", 1, [1], 1, 1, RunManifest.Running, DateTimeOffset.UnixEpoch, null);
+        _ = SpecFingerprint.SpecHash(spec);
+        var normalised = new System.Text.Json.Nodes.JsonObject { ["grid"] = new System.Text.Json.Nodes.JsonArray(0.5, "x") };
+        var manifest = new RunManifest(RunManifest.CurrentFormat, ProgramInfo.Version, "", "", normalised, [], "", 1, [1], 1, 1, RunManifest.Running, DateTimeOffset.UnixEpoch, null);
         _ = JsonSerializer.Serialize(manifest, ManifestJson.Default.RunManifest);
     }
 
