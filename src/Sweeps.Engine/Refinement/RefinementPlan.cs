@@ -8,35 +8,115 @@ namespace Sweeps.Engine.Refinement;
 /// and period is subdivided: every level-ℓ lattice point inside it, faces included, is added. Repeating this
 /// level by level follows every boundary the coarser level saw, at half the spacing each time; a feature
 /// that falls entirely between agreeing coarse points is not seen, as on any grid.
+/// The run's own points (level 0) are kept in a dense array, four bytes each — a regime's code and the period
+/// in one number — so a plan of a 10^8-point run takes 400 MB, not the many gigabytes of a table of them; the
+/// few points of the finer levels are kept by their index on the finest lattice.
 /// </summary>
 public sealed class RefinementPlan
 {
     private readonly Grid baseGrid;
     private readonly int finest;
     private readonly Grid finestGrid;
-    private readonly Dictionary<long, (string Regime, int Period)> known = [];
+    private readonly int[] run;
+    private readonly Dictionary<long, int> known = [];
+    private readonly List<string> regimes = [];
 
     /// <param name="grid">The run's level-0 grid.</param>
     /// <param name="finest">The finest level this plan may reach; points are kept on its lattice.</param>
     public RefinementPlan(Grid grid, int finest)
     {
+        if (grid.PointCount > Array.MaxLength)
+        {
+            throw new ArgumentException($"{grid.PointCount} points are more than a refinement plan holds ({Array.MaxLength})", nameof(grid));
+        }
+
         baseGrid = grid;
         this.finest = finest;
         finestGrid = LevelGrid.At(grid, finest);
+        run = new int[grid.PointCount];
     }
 
     /// <summary>Points known so far, on any level.</summary>
-    public int KnownPoints => known.Count;
+    public long KnownPoints { get; private set; }
 
     /// <summary>Records the result of a computed point of level <paramref name="level"/> (index on that level's lattice).</summary>
-    public void Add(int level, long point, string regime, int period) => known[ToFinest(level, point)] = (regime, period);
+    public void Add(int level, long point, string regime, int period)
+    {
+        var value = Pack(regime, period);
+        if (level == 0)
+        {
+            KnownPoints += run[point] == 0 ? 1 : 0;
+            run[point] = value;
+            return;
+        }
+
+        var indices = new long[baseGrid.Axes.Count];
+        LevelGrid.At(baseGrid, level).Indices(point, indices);
+        if (RunPoint(indices, level) is { } own)
+        {
+            KnownPoints += run[own] == 0 ? 1 : 0;
+            run[own] = value;
+            return;
+        }
+
+        var key = Key(indices, LevelGrid.Scale(baseGrid, finest - level));
+        KnownPoints += known.ContainsKey(key) ? 0 : 1;
+        known[key] = value;
+    }
+
+    /// <summary>A regime and period as one number, never 0 (0 marks a point not known): the regime's code above 16 bits, the period (at most 4096) below.</summary>
+    private int Pack(string regime, int period)
+    {
+        if (period is < 0 or > 0xFFFF)
+        {
+            throw new ArgumentOutOfRangeException(nameof(period));
+        }
+
+        var code = regimes.IndexOf(regime);
+        if (code < 0)
+        {
+            regimes.Add(regime);
+            code = regimes.Count - 1;
+        }
+
+        return ((code + 1) << 16) | period;
+    }
+
+    /// <summary>What is known of the point at <paramref name="indices"/> on level <paramref name="level"/>'s lattice (0: nothing).</summary>
+    private int Known(long[] indices, int level, long[] toFinest) =>
+        RunPoint(indices, level) is { } own ? run[own] : known.GetValueOrDefault(Key(indices, toFinest));
+
+    /// <summary>The run's own point at <paramref name="indices"/> on level <paramref name="level"/>'s lattice, if it is one (every refined index a multiple of 2^level).</summary>
+    private long? RunPoint(long[] indices, int level)
+    {
+        var mask = (1L << level) - 1;
+        Span<long> own = stackalloc long[indices.Length];
+        for (var a = 0; a < indices.Length; a++)
+        {
+            if (!LevelGrid.Refinable(baseGrid, a))
+            {
+                own[a] = indices[a];
+                continue;
+            }
+
+            if ((indices[a] & mask) != 0)
+            {
+                return null;
+            }
+
+            own[a] = indices[a] >> level;
+        }
+
+        return baseGrid.PointIndex(own);
+    }
 
     /// <summary>
     /// The new points of <paramref name="level"/> (indices on its lattice, ascending) given what is known.
     /// <paramref name="seeds"/> are the points added at level − 1 (on its lattice; for level 1 every grid
-    /// point): a cell that can disagree now has one of them as a corner, so only their cells are examined.
+    /// point): a cell that can disagree now has one of them as a corner, so only their cells are examined. Null: every
+    /// point of level − 1 (every cell is examined, without keeping a set of the cells seen).
     /// </summary>
-    public long[] Next(int level, IEnumerable<long> seeds)
+    public long[] Next(int level, IEnumerable<long>? seeds)
     {
         if (level < 1 || level > finest)
         {
@@ -48,14 +128,15 @@ public sealed class RefinementPlan
         var coarse = LevelGrid.At(baseGrid, level - 1);
         var fine = LevelGrid.At(baseGrid, level);
         var toFinest = LevelGrid.Scale(baseGrid, finest - (level - 1));
+        var fineToFinest = LevelGrid.Scale(baseGrid, finest - level);
         var corner = new long[axes];
         var indices = new long[axes];
         var added = new HashSet<long>();
         var d = refinable.Length;
-        foreach (var lower in CellCorners(coarse, refinable, seeds))
+        foreach (var lower in seeds is null ? AllCellCorners(coarse, refinable) : CellCorners(coarse, refinable, seeds))
         {
             // The cell's corners, all known and not all alike?
-            (string, int)? first = null;
+            int? first = null;
             var mixed = false;
             var complete = true;
             for (var mask = 0; mask < 1 << d && complete; mask++)
@@ -66,7 +147,8 @@ public sealed class RefinementPlan
                     corner[refinable[k]] += (mask >> k) & 1;
                 }
 
-                if (!known.TryGetValue(Key(corner, toFinest), out var value))
+                var value = Known(corner, level - 1, toFinest);
+                if (value == 0)
                 {
                     complete = false;
                     break;
@@ -103,10 +185,9 @@ public sealed class RefinementPlan
                     rest /= 3;
                 }
 
-                var point = fine.PointIndex(indices);
-                if (!known.ContainsKey(ToFinest(level, point)))
+                if (Known(indices, level, fineToFinest) == 0)
                 {
-                    added.Add(point);
+                    added.Add(fine.PointIndex(indices));
                 }
             }
         }
@@ -114,6 +195,26 @@ public sealed class RefinementPlan
         var result = added.ToArray();
         Array.Sort(result);
         return result;
+    }
+
+    /// <summary>The lower corner of every cell of <paramref name="lattice"/> along the refinable axes, each once, in point order.</summary>
+    private static IEnumerable<long[]> AllCellCorners(Grid lattice, int[] refinable)
+    {
+        var lower = new long[lattice.Axes.Count];
+        for (var point = 0L; point < lattice.PointCount; point++)
+        {
+            lattice.Indices(point, lower);
+            var inside = true;
+            foreach (var a in refinable)
+            {
+                inside &= lower[a] < lattice.Axes[a].Count - 1;
+            }
+
+            if (inside)
+            {
+                yield return lower;
+            }
+        }
     }
 
     /// <summary>The lower corners of the cells that have a seed as a corner, each once.</summary>
@@ -143,13 +244,6 @@ public sealed class RefinementPlan
                 }
             }
         }
-    }
-
-    private long ToFinest(int level, long point)
-    {
-        var indices = new long[baseGrid.Axes.Count];
-        LevelGrid.At(baseGrid, level).Indices(point, indices);
-        return Key(indices, LevelGrid.Scale(baseGrid, finest - level));
     }
 
     private long Key(long[] indices, long[] scale)

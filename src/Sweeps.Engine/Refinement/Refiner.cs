@@ -42,10 +42,15 @@ public static class Refiner
             throw ConfigException.Single(run.FullPath, "the run is not finished; finish it (run or worker) before refining");
         }
 
+        // The run is read part by part into the plan (four bytes a point), never as a whole table; every one of its
+        // points seeds the first level.
         var plan = new RefinementPlan(grid, levels);
-        var table = await RunTable.ReadAsync(run, samples: false, token);
-        Add(plan, 0, table);
-        IEnumerable<long> seeds = table.Point;
+        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: false, token: token))
+        {
+            Add(plan, 0, part);
+        }
+
+        IEnumerable<long>? seeds = null;
         var reports = new List<LevelReport>();
         for (var level = 1; level <= levels; level++)
         {
