@@ -24,14 +24,8 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
     public static (MapPlane Plane, RunTable Merged) SelectRefined(Grid grid, IReadOnlyList<RunTable> tables, IReadOnlyDictionary<string, double> slices)
     {
         var finest = tables.Count - 1;
+        var exact = ExactSlices(grid, slices);
         var coarse = Select(grid, tables[0], slices);
-
-        // Slices at the exact level-0 values, which every finer lattice holds bit for bit.
-        var exact = slices.Keys.ToDictionary(name => name, name =>
-        {
-            var axis = grid.Axes.First(a => a.Name == name);
-            return axis.ValueAt(Nearest(axis, slices[name]));
-        });
         var rows = new List<int>();
         var cells = new CellIndices(coarse.Free.Count);
         var halves = new List<long[]>();
@@ -39,29 +33,69 @@ internal sealed record MapPlane(IReadOnlyList<GridAxis> Free, IReadOnlyList<int>
         var offset = 0;
         for (var level = 0; level <= finest; level++)
         {
-            var lattice = LevelGrid.At(grid, level);
-            var plane = Select(lattice, tables[level], exact);
-            var stretch = (int)Math.Pow(2, finest - level);
-            var free = plane.Free.Select(f => LevelGrid.Refinable(grid, IndexOf(grid, f.Name))).ToArray();
-            var half = free.Select(refined => refined ? (long)(stretch / 2) : 0L).ToArray();
+            var plane = SelectLevel(grid, level, finest, tables[level], exact);
             for (var k = 0; k < plane.Rows.Count; k++)
             {
                 rows.Add(offset + plane.Rows[k]);
                 for (var a = 0; a < cell.Length; a++)
                 {
-                    cell[a] = free[a] ? plane.Cells[k, a] * stretch : plane.Cells[k, a];
+                    cell[a] = plane.Cells[k, a];
                 }
 
                 cells.Add(cell);
-                halves.Add(half); // one level's rows share their half-widths
+                halves.Add(plane.Half![k]);
             }
 
             offset += tables[level].Count;
         }
 
+        return (new MapPlane(FinestAxes(grid, finest, coarse.Free), rows, cells, coarse.Description, halves), RunTable.Merge(tables));
+    }
+
+    /// <summary>
+    /// Slices at the exact level-0 values (the grid value nearest to each one asked for), which every finer lattice holds
+    /// bit for bit.
+    /// </summary>
+    public static IReadOnlyDictionary<string, double> ExactSlices(Grid grid, IReadOnlyDictionary<string, double> slices) =>
+        slices.Keys.ToDictionary(name => name, name =>
+        {
+            var axis = grid.Axes.FirstOrDefault(a => a.Name == name);
+            return axis is null ? slices[name] : axis.ValueAt(Nearest(axis, slices[name]));
+        });
+
+    /// <summary>
+    /// The plane of one table of level <paramref name="level"/> (its rows in its own order) on the lattice of level
+    /// <paramref name="finest"/>, each row with its half-width: what <see cref="SelectRefined"/> draws of that table, for
+    /// a reader that takes a refined run one part at a time. <paramref name="exact"/>: <see cref="ExactSlices"/>.
+    /// </summary>
+    public static MapPlane SelectLevel(Grid grid, int level, int finest, RunTable table, IReadOnlyDictionary<string, double> exact)
+    {
+        var plane = Select(LevelGrid.At(grid, level), table, exact);
+        var stretch = 1L << (finest - level);
+        var free = plane.Free.Select(f => LevelGrid.Refinable(grid, IndexOf(grid, f.Name))).ToArray();
+        var half = free.Select(refined => refined ? stretch / 2 : 0L).ToArray();
+        var cells = new CellIndices(free.Length, plane.Rows.Count);
+        var cell = new long[free.Length];
+        var halves = new long[plane.Rows.Count][];
+        for (var k = 0; k < plane.Rows.Count; k++)
+        {
+            for (var a = 0; a < cell.Length; a++)
+            {
+                cell[a] = free[a] ? plane.Cells[k, a] * stretch : plane.Cells[k, a];
+            }
+
+            cells.Add(cell);
+            halves[k] = half; // one level's rows share their half-widths
+        }
+
+        return new MapPlane(FinestAxes(grid, finest, plane.Free), plane.Rows, cells, plane.Description, halves);
+    }
+
+    /// <summary>The drawn axes on the finest level's lattice.</summary>
+    private static GridAxis[] FinestAxes(Grid grid, int finest, IReadOnlyList<GridAxis> free)
+    {
         var finestGrid = LevelGrid.At(grid, finest);
-        var axes = coarse.Free.Select(f => finestGrid.Axes[IndexOf(grid, f.Name)]).ToArray();
-        return (new MapPlane(axes, rows, cells, coarse.Description, halves), RunTable.Merge(tables));
+        return free.Select(f => finestGrid.Axes[IndexOf(grid, f.Name)]).ToArray();
     }
 
     private static int IndexOf(Grid grid, string name) => grid.Axes.ToList().FindIndex(a => a.Name == name);

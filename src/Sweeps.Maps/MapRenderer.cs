@@ -35,8 +35,9 @@ public static class MapRenderer
 
     /// <summary>
     /// A map read part by part, the run never held whole, so memory is the picture's whatever the run's size: a regime,
-    /// period or exponent map in one pass, a bifurcation diagram in two (the samples' range, then the picture). Draws
-    /// what <see cref="Render"/> draws, byte for byte; for runs without refinement levels, and not in attractor colours.
+    /// period or exponent map in one pass, a bifurcation diagram in two (the samples' range, then the picture). A refined
+    /// run's levels follow its own parts, coarse to fine, each part placed on the finest lattice as <see cref="Render"/>
+    /// places it. Draws what <see cref="Render"/> draws, byte for byte; not in attractor colours.
     /// </summary>
     public static async Task<byte[]> RenderStreamedAsync(RunDirectory run, MapRequest request, string title, CancellationToken token = default) =>
         (await BuildStreamedAsync(run, request, title, token)).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
@@ -52,12 +53,29 @@ public static class MapRenderer
 
         var pixels = Pixels(request);
         var bifurcation = DrawsSamples(spec.Grid, request);
+        var finest = run.FinishedLevels();
+        var exact = MapPlane.ExactSlices(spec.Grid, request.Slices);
+        MapPlane Cut(int level, RunTable part) =>
+            finest == 0 ? MapPlane.Select(spec.Grid, part, request.Slices) : MapPlane.SelectLevel(spec.Grid, level, finest, part, exact);
+
+        // The run's parts, then each level's, coarse to fine: finer points paint over the coarser blocks around them.
+        async IAsyncEnumerable<(int Level, RunTable Part)> Parts(bool samples, bool pointsAndSamplesOnly)
+        {
+            for (var level = 0; level <= finest; level++)
+            {
+                await foreach (var part in RunTable.ReadEachLevelPartAsync(run, level, samples, pointsAndSamplesOnly, token))
+                {
+                    yield return (level, part);
+                }
+            }
+        }
+
         MapPlane? first = null;
         BifurcationPicture? line = null;
         PlanePicture? plane = null;
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: bifurcation, pointsAndSamplesOnly: bifurcation, token))
+        await foreach (var (level, part) in Parts(samples: bifurcation, pointsAndSamplesOnly: bifurcation))
         {
-            var cut = MapPlane.Select(spec.Grid, part, request.Slices);
+            var cut = Cut(level, part);
             first ??= cut;
             if (bifurcation)
             {
@@ -82,9 +100,9 @@ public static class MapRenderer
         plot.FigureBackground.Color = Colors.White;
         if (line is not null)
         {
-            await foreach (var part in RunTable.ReadEachPartAsync(run, samples: true, token: token))
+            await foreach (var (level, part) in Parts(samples: true, pointsAndSamplesOnly: false))
             {
-                line.Add(part, MapPlane.Select(spec.Grid, part, request.Slices));
+                line.Add(part, Cut(level, part));
             }
 
             line.Draw(plot, spec.Model.Variables[0], pixels.Columns);

@@ -215,6 +215,43 @@ public sealed class MapRendererTests : IDisposable
         }
     }
 
+    // A refined run read part by part — its own parts, then each level's — against the same run and levels read whole and
+    // merged on the finest lattice: byte for byte, as a bifurcation diagram and as maps of two axes in every colouring
+    // that streams, sliced too.
+    [Fact]
+    public async Task RefinedMap_ReadPartByPart_IsTheSamePicture()
+    {
+        var line = await TestRuns.CreateAsync(Path.Combine(folder, "refined-line"), TestRuns.Logistic("r = { from = 2.9, to = 3.6, steps = 36 }"), chunkSize: 9);
+        var plane = await TestRuns.CreateAsync(Path.Combine(folder, "refined-plane"), TestRuns.Logistic("r = { from = 3.3, to = 3.6, steps = 16 }\nx = { from = 0.2, to = 0.8, steps = 4 }"), chunkSize: 16);
+        foreach (var run in new[] { line, plane })
+        {
+            await Engine.Refinement.Refiner.RunAsync(run, 2, 1, null, CancellationToken.None);
+            Assert.Equal(2, run.FinishedLevels());
+            Assert.True(Directory.GetFiles(Path.Combine(run.LevelPath(2), "parts")).Length > 1, "a level has several parts");
+        }
+
+        foreach (var (run, request) in new[]
+        {
+            (line, new MapRequest(ColorMode.Regime, new Dictionary<string, double>(), 900, 600)),
+            (line, new MapRequest(ColorMode.Period, new Dictionary<string, double>(), 900, 600)),
+            (plane, new MapRequest(ColorMode.Regime, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Period, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Lyapunov, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Regime, new Dictionary<string, double> { ["x"] = 0.41 }, 900, 600)),
+        })
+        {
+            var samples = MapRenderer.DrawsSamples(run.LoadSpec().Grid, request);
+            var levels = new List<RunTable>();
+            for (var level = 1; level <= run.FinishedLevels(); level++)
+            {
+                levels.Add(await RunTable.ReadLevelAsync(run, level, samples));
+            }
+
+            var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples), request, "logistic", levels);
+            Assert.Equal(whole, await MapRenderer.RenderStreamedAsync(run, request, "logistic"));
+        }
+    }
+
     [Fact]
     public void DrawsSamples_OnlyForABifurcationDiagram()
     {

@@ -60,14 +60,14 @@ internal static class MapCommand
     }
 
     /// <summary>
-    /// A run without refinement levels is drawn part by part (memory bounded by the picture, not the run), unless in
-    /// attractor colours; those and refined runs are read whole.
+    /// A run is drawn part by part, its refinement levels after it (memory bounded by the picture, not the run), unless in
+    /// attractor colours, which are read whole.
     /// </summary>
     private static async Task<byte[]> DrawAsync(RunDirectory run, MapRequest request, CancellationToken token)
     {
         var grid = run.LoadSpec().Grid;
         var title = Path.GetFileName(run.FullPath);
-        if (run.FinishedLevels() == 0 && MapRenderer.Streams(request))
+        if (MapRenderer.Streams(request))
         {
             return await MapRenderer.RenderStreamedAsync(run, request, title, token);
         }

@@ -67,11 +67,15 @@ public sealed class RunTable
     /// and the samples are read (a first pass after the samples' range); the other columns are then left at their
     /// default values.
     /// </summary>
-    public static async IAsyncEnumerable<RunTable> ReadEachPartAsync(
-        RunDirectory run, bool samples, bool pointsAndSamplesOnly = false, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
+    public static IAsyncEnumerable<RunTable> ReadEachPartAsync(RunDirectory run, bool samples, bool pointsAndSamplesOnly = false, CancellationToken token = default) =>
+        ReadEachLevelPartAsync(run, 0, samples, pointsAndSamplesOnly, token);
+
+    /// <summary>As <see cref="ReadEachPartAsync"/>, the parts of refinement level <paramref name="level"/> (0: the run's own).</summary>
+    public static async IAsyncEnumerable<RunTable> ReadEachLevelPartAsync(
+        RunDirectory run, int level, bool samples, bool pointsAndSamplesOnly = false, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
     {
         var layout = Layout.Of(run);
-        foreach (var part in PartsIn(run.PartsPath))
+        foreach (var part in PartsIn(level == 0 ? run.PartsPath : Path.Combine(run.LevelPath(level), "parts")))
         {
             yield return await ReadAsync(run, layout, [part], samples, attractors: false, token, pointsAndSamplesOnly);
         }
