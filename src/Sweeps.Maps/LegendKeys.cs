@@ -4,21 +4,28 @@ using Sweeps.Engine.Runs;
 namespace Sweeps.Maps;
 
 /// <summary>
-/// The legend of a picture of classes, gathered row by row as tables are painted: the regimes and period buckets
-/// met, and for attractor colours the one table and rows whose labels name the entries.
+/// The legend of a picture of classes, gathered row by row as tables are painted: the regimes, period buckets or
+/// attractor labels met (the attractors behind the labels from the last table's catalog, which grows as parts are read).
 /// </summary>
 internal sealed class LegendKeys(ColorMode mode)
 {
     private readonly HashSet<string> regimes = [];
     private readonly HashSet<int> periods = [];
-    private (RunTable Table, IReadOnlyList<int> Rows)? attractorRows;
+    private readonly HashSet<int> attractors = [];
+    private IReadOnlyList<Core.Attractors.AttractorSignature> known = [];
 
     /// <summary>Notes the legend entries of the table's rows on the plane.</summary>
     public void Note(RunTable table, IReadOnlyList<int> rows)
     {
         if (mode == ColorMode.Attractor)
         {
-            attractorRows = attractorRows is null ? (table, rows) : throw new InvalidOperationException("attractor colours need the whole run in one table");
+            var labels = table.Attractors ?? throw new InvalidOperationException("attractor labels were not read");
+            foreach (var row in rows)
+            {
+                attractors.Add(MapRenderer.AttractorBucket(labels.Label[row]));
+            }
+
+            known = labels.Known;
             return;
         }
 
@@ -32,7 +39,7 @@ internal sealed class LegendKeys(ColorMode mode)
     public void Show(Plot plot) => MapRenderer.ShowLegend(plot, mode switch
     {
         ColorMode.Period => MapRenderer.PeriodLegend(periods),
-        ColorMode.Attractor => attractorRows is { } rows ? MapRenderer.AttractorLegend(rows.Table, rows.Rows) : [],
+        ColorMode.Attractor => MapRenderer.AttractorLegend(attractors, known),
         _ => MapRenderer.RegimeLegend(regimes),
     });
 }

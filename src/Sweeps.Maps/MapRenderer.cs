@@ -30,14 +30,12 @@ public static class MapRenderer
     public static byte[] Render(RunDirectory run, RunTable table, MapRequest request, string title, IReadOnlyList<RunTable>? levels = null) =>
         Build(run, table, request, title, levels).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
 
-    /// <summary>Whether <see cref="RenderStreamedAsync"/> can draw <paramref name="request"/>: anything but attractor colours (their labels come from the whole run).</summary>
-    public static bool Streams(MapRequest request) => request.Color != ColorMode.Attractor;
-
     /// <summary>
     /// A map read part by part, the run never held whole, so memory is the picture's whatever the run's size: a regime,
     /// period or exponent map in one pass, a bifurcation diagram in two (the samples' range, then the picture). A refined
     /// run's levels follow its own parts, coarse to fine, each part placed on the finest lattice as <see cref="Render"/>
-    /// places it. Draws what <see cref="Render"/> draws, byte for byte; not in attractor colours.
+    /// places it; in attractor colours (which leave the levels out) one catalog labels the parts in order, as it labels
+    /// the whole run. Draws what <see cref="Render"/> draws, byte for byte.
     /// </summary>
     public static async Task<byte[]> RenderStreamedAsync(RunDirectory run, MapRequest request, string title, CancellationToken token = default) =>
         (await BuildStreamedAsync(run, request, title, token)).GetImageBytes(request.Width, request.Height, ImageFormat.Png);
@@ -46,14 +44,10 @@ public static class MapRenderer
     {
         FontSetup.EnsureRegistered();
         var spec = run.LoadSpec();
-        if (!Streams(request))
-        {
-            throw new ArgumentException("attractor colours are drawn from the whole run, not part by part");
-        }
-
         var pixels = Pixels(request);
         var bifurcation = DrawsSamples(spec.Grid, request);
-        var finest = run.FinishedLevels();
+        var attractors = request.Color == ColorMode.Attractor;
+        var finest = attractors ? 0 : run.FinishedLevels();
         var exact = MapPlane.ExactSlices(spec.Grid, request.Slices);
         MapPlane Cut(int level, RunTable part) =>
             finest == 0 ? MapPlane.Select(spec.Grid, part, request.Slices) : MapPlane.SelectLevel(spec.Grid, level, finest, part, exact);
@@ -61,6 +55,16 @@ public static class MapRenderer
         // The run's parts, then each level's, coarse to fine: finer points paint over the coarser blocks around them.
         async IAsyncEnumerable<(int Level, RunTable Part)> Parts(bool samples, bool pointsAndSamplesOnly)
         {
+            if (attractors && !pointsAndSamplesOnly)
+            {
+                await foreach (var part in RunTable.ReadEachPartWithAttractorsAsync(run, samples, token))
+                {
+                    yield return (0, part);
+                }
+
+                yield break;
+            }
+
             for (var level = 0; level <= finest; level++)
             {
                 await foreach (var part in RunTable.ReadEachLevelPartAsync(run, level, samples, pointsAndSamplesOnly, token))
@@ -93,7 +97,7 @@ public static class MapRenderer
         if (first is null)
         {
             // No part written yet: nothing to stream, the in-memory drawing handles the empty run.
-            return Build(run, await RunTable.ReadAsync(run, samples: bifurcation, token), request, title);
+            return Build(run, await RunTable.ReadAsync(run, samples: bifurcation, attractors, token), request, title);
         }
 
         var plot = new Plot();
@@ -215,11 +219,14 @@ public static class MapRenderer
     }
 
     /// <summary>One entry per attractor label on the plane (those beyond the palette share one): its number, class and where it sits.</summary>
-    internal static IEnumerable<(string, Color)> AttractorLegend(RunTable table, IReadOnlyList<int> rows)
+    /// <summary>An attractor label as the legend groups it: labels beyond the palette share one entry.</summary>
+    internal static int AttractorBucket(int label) => Math.Min(label, Palette.AttractorColors.Length);
+
+    /// <summary>The legend entries of the attractor labels met (<see cref="AttractorBucket"/>), named by the attractors behind them.</summary>
+    internal static IEnumerable<(string, Color)> AttractorLegend(IEnumerable<int> buckets, IReadOnlyList<Core.Attractors.AttractorSignature> known)
     {
-        var labels = table.Attractors!;
         var shown = Palette.AttractorColors.Length;
-        foreach (var label in rows.Select(r => labels.Label[r]).Select(l => l >= shown ? shown : l).Distinct().Order())
+        foreach (var label in buckets.Distinct().Order())
         {
             if (label < 0)
             {
@@ -231,10 +238,10 @@ public static class MapRenderer
             }
             else
             {
-                var known = labels.Known[label];
-                var period = known.Period > 1 ? $" {known.Period}" : "";
-                var at = known.Regime is Core.Analysis.Regime.Divergent ? "" : $" near {known.State[0].ToString("g3", System.Globalization.CultureInfo.InvariantCulture)}";
-                yield return ($"{label + 1}: {Core.Analysis.RegimeNames.ToText(known.Regime)}{period}{at}", Palette.ForAttractor(label));
+                var attractor = known[label];
+                var period = attractor.Period > 1 ? $" {attractor.Period}" : "";
+                var at = attractor.Regime is Core.Analysis.Regime.Divergent ? "" : $" near {attractor.State[0].ToString("g3", System.Globalization.CultureInfo.InvariantCulture)}";
+                yield return ($"{label + 1}: {Core.Analysis.RegimeNames.ToText(attractor.Regime)}{period}{at}", Palette.ForAttractor(label));
             }
         }
     }

@@ -208,7 +208,6 @@ public sealed class MapRendererTests : IDisposable
         })
         {
             Assert.True(Directory.GetFiles(run.PartsPath).Length > 2, "the runs have several parts");
-            Assert.True(MapRenderer.Streams(request));
             var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples: MapRenderer.DrawsSamples(run.LoadSpec().Grid, request)), request, "logistic");
             var streamed = await MapRenderer.RenderStreamedAsync(run, request, "logistic");
             Assert.Equal(whole, streamed);
@@ -249,6 +248,48 @@ public sealed class MapRendererTests : IDisposable
 
             var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples), request, "logistic", levels);
             Assert.Equal(whole, await MapRenderer.RenderStreamedAsync(run, request, "logistic"));
+        }
+    }
+
+    // Attractor colours read part by part — one catalog labelling the parts in order — against the whole run labelled at
+    // once: byte for byte, for a grid of starting points (each point's own row names its attractor) and for several
+    // starts per point (the attractor table names them), as a map of two axes and as a bifurcation diagram's strip.
+    [Fact]
+    public async Task AttractorMap_ReadPartByPart_IsTheSamePicture()
+    {
+        const string cubic = """
+            [model]
+            kind = "map"
+            variables = ["x"]
+            parameters = ["a"]
+            [model.equations]
+            x = "a*x - x^3"
+            [grid]
+            a = { from = 1.1, to = 2.2, steps = 12 }
+            x = { from = -0.95, to = 0.95, steps = 20 }
+            [analysis]
+            transient = 2000
+            measure = 500
+            max_period = 8
+            samples = 4
+            """;
+        var plane = await TestRuns.CreateAsync(Path.Combine(folder, "cubic-plane"), cubic, chunkSize: 37);
+        var starts = await TestRuns.CreateAsync(
+            Path.Combine(folder, "cubic-starts"),
+            cubic.Replace("x = { from = -0.95, to = 0.95, steps = 20 }", "", StringComparison.Ordinal)
+                + "\n[initial]\nx = 0.3\n[starts]\nx = { from = -1, to = 1, steps = 6 }\n",
+            chunkSize: 3);
+        foreach (var (run, request) in new[]
+        {
+            (plane, new MapRequest(ColorMode.Attractor, new Dictionary<string, double>())),
+            (plane, new MapRequest(ColorMode.Attractor, new Dictionary<string, double> { ["x"] = 0.5 }, 900, 600)),
+            (starts, new MapRequest(ColorMode.Attractor, new Dictionary<string, double>(), 900, 600)),
+        })
+        {
+            Assert.True(Directory.GetFiles(run.PartsPath).Length > 2, "the runs have several parts");
+            var samples = MapRenderer.DrawsSamples(run.LoadSpec().Grid, request);
+            var whole = MapRenderer.Render(run, await RunTable.ReadAsync(run, samples, attractors: true), request, "cubic");
+            Assert.Equal(whole, await MapRenderer.RenderStreamedAsync(run, request, "cubic"));
         }
     }
 

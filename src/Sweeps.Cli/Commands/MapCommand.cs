@@ -59,27 +59,7 @@ internal static class MapCommand
         return command;
     }
 
-    /// <summary>
-    /// A run is drawn part by part, its refinement levels after it (memory bounded by the picture, not the run), unless in
-    /// attractor colours, which are read whole.
-    /// </summary>
-    private static async Task<byte[]> DrawAsync(RunDirectory run, MapRequest request, CancellationToken token)
-    {
-        var grid = run.LoadSpec().Grid;
-        var title = Path.GetFileName(run.FullPath);
-        if (MapRenderer.Streams(request))
-        {
-            return await MapRenderer.RenderStreamedAsync(run, request, title, token);
-        }
-
-        var samples = MapRenderer.DrawsSamples(grid, request);
-        var table = await RunTable.ReadAsync(run, samples, attractors: request.Color == ColorMode.Attractor, token);
-        var levels = new List<RunTable>();
-        for (var level = 1; level <= run.FinishedLevels(); level++)
-        {
-            levels.Add(await RunTable.ReadLevelAsync(run, level, samples, token));
-        }
-
-        return MapRenderer.Render(run, table, request, title, levels);
-    }
+    /// <summary>A run is drawn part by part, its refinement levels after it: memory bounded by the picture, not the run.</summary>
+    private static Task<byte[]> DrawAsync(RunDirectory run, MapRequest request, CancellationToken token) =>
+        MapRenderer.RenderStreamedAsync(run, request, Path.GetFileName(run.FullPath), token);
 }

@@ -32,21 +32,64 @@ public sealed class AttractorLabels
 
     internal static async Task<AttractorLabels> ReadAsync(RunDirectory run, long[] points, CancellationToken token)
     {
-        var spec = run.LoadSpec();
-        var variables = spec.Model.Variables;
-        var catalog = new AttractorCatalog(spec.Analysis.Tolerance, spec.Analysis.ZeroBand);
+        // Every part's attractors in part order (the catalog numbers them as it meets them), then the points asked for.
+        var labeller = new Labeller(run);
         var byPoint = new Dictionary<long, int>();
-        if (!spec.GroupsAttractors)
+        foreach (var part in labeller.Parts())
         {
-            await FromPointsAsync(run, spec, catalog, byPoint, token);
-            return new AttractorLabels(points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray(), catalog.Known, catalog.Overflowed);
+            await labeller.LabelAsync(part, byPoint, token);
         }
 
-        var parts = Directory.Exists(run.AttractorPartsPath)
-            ? Directory.EnumerateFiles(run.AttractorPartsPath, "part-*.parquet").Order(StringComparer.Ordinal)
-            : Enumerable.Empty<string>();
-        foreach (var part in parts)
+        return labeller.For(points, byPoint);
+    }
+
+    /// <summary>
+    /// Labels a run's points part by part, one catalog for the whole run: parts given in part order get the labels the
+    /// whole run read at once gives them (<see cref="ReadAsync"/>), so a picture can be drawn one part at a time.
+    /// </summary>
+    internal sealed class Labeller
+    {
+        private readonly RunDirectory run;
+        private readonly Specs.SweepSpec spec;
+        private readonly AttractorCatalog catalog;
+
+        public Labeller(RunDirectory run)
         {
+            this.run = run;
+            spec = run.LoadSpec();
+            catalog = new AttractorCatalog(spec.Analysis.Tolerance, spec.Analysis.ZeroBand);
+        }
+
+        /// <summary>The files that name the attractors, in part order: attractor parts where a run groups starts, else its point parts.</summary>
+        public IEnumerable<string> Parts()
+        {
+            var folder = spec.GroupsAttractors ? run.AttractorPartsPath : run.PartsPath;
+            return Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal) : [];
+        }
+
+        /// <summary>The labels of the points of the point part <paramref name="pointPart"/> (its rows, in the order given).</summary>
+        public async Task<AttractorLabels> LabelPartAsync(string pointPart, long[] points, CancellationToken token)
+        {
+            var byPoint = new Dictionary<long, int>(points.Length);
+            var part = spec.GroupsAttractors ? Path.Combine(run.AttractorPartsPath, Path.GetFileName(pointPart)) : pointPart;
+            if (File.Exists(part))
+            {
+                await LabelAsync(part, byPoint, token);
+            }
+
+            return For(points, byPoint);
+        }
+
+        public AttractorLabels For(long[] points, Dictionary<long, int> byPoint) =>
+            new(points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray(), catalog.Known, catalog.Overflowed);
+
+        /// <summary>Labels the attractors one file of <see cref="Parts"/> names, by point.</summary>
+        public Task LabelAsync(string part, Dictionary<long, int> byPoint, CancellationToken token) =>
+            spec.GroupsAttractors ? FromAttractorsAsync(part, byPoint, token) : FromPointsAsync(part, byPoint, token);
+
+        private async Task FromAttractorsAsync(string part, Dictionary<long, int> byPoint, CancellationToken token)
+        {
+            var variables = spec.Model.Variables;
             await using var reader = await ParquetReader.CreateAsync(part, null, token);
             var fields = reader.Schema.DataFields;
             DataField Field(string name) => fields.First(f => f.Name == name);
@@ -78,21 +121,14 @@ public sealed class AttractorLabels
             }
         }
 
-        var labels = points.Select(p => byPoint.TryGetValue(p, out var label) ? label : Missing).ToArray();
-        return new AttractorLabels(labels, catalog.Known, catalog.Overflowed);
-    }
-
-    /// <summary>
-    /// One start per point: no attractor table is written, and each point's own row describes its attractor —
-    /// the cycle from its last samples (when they hold one whole period), the box from its samples.
-    /// </summary>
-    private static async Task FromPointsAsync(RunDirectory run, Specs.SweepSpec spec, AttractorCatalog catalog, Dictionary<long, int> byPoint, CancellationToken token)
-    {
-        var schema = new PartSchema(spec);
-        var n = spec.Model.Variables.Count;
-        foreach (var part in Directory.EnumerateFiles(run.PartsPath, "part-*.parquet").Order(StringComparer.Ordinal))
+        /// <summary>
+        /// One start per point: no attractor table is written, and each point's own row describes its attractor —
+        /// the cycle from its last samples (when they hold one whole period), the box from its samples.
+        /// </summary>
+        private async Task FromPointsAsync(string part, Dictionary<long, int> byPoint, CancellationToken token)
         {
-            var columns = await PartReader.ReadAsync(part, schema, token);
+            var n = spec.Model.Variables.Count;
+            var columns = await PartReader.ReadAsync(part, new PartSchema(spec), token);
             var cursor = new ChunkColumns.SampleCursor(columns);
             var samples = new List<double>();
             for (var row = 0; row < columns.Count; row++)

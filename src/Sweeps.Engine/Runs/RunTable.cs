@@ -81,6 +81,21 @@ public sealed class RunTable
         }
     }
 
+    /// <summary>
+    /// As <see cref="ReadEachPartAsync"/>, each part with its points' attractor labels: one catalog across the parts, so
+    /// that every part's labels are those of the whole run read at once (<see cref="ReadAsync(RunDirectory, bool, bool, CancellationToken)"/>).
+    /// </summary>
+    public static async IAsyncEnumerable<RunTable> ReadEachPartWithAttractorsAsync(
+        RunDirectory run, bool samples, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
+    {
+        var layout = Layout.Of(run);
+        var labeller = new AttractorLabels.Labeller(run);
+        foreach (var part in PartsIn(run.PartsPath))
+        {
+            yield return await ReadAsync(run, layout, [part], samples, attractors: true, token, labeller: labeller);
+        }
+    }
+
     private static string[] PartsIn(string folder) =>
         Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
 
@@ -97,7 +112,8 @@ public sealed class RunTable
         }
     }
 
-    private static async Task<RunTable> ReadAsync(RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token, bool pointsAndSamplesOnly = false)
+    private static async Task<RunTable> ReadAsync(
+        RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token, bool pointsAndSamplesOnly = false, AttractorLabels.Labeller? labeller = null)
     {
         var (axisNames, branches, dimension) = (layout.AxisNames, layout.Branches, layout.Dimension);
 
@@ -191,7 +207,7 @@ public sealed class RunTable
             Sorted(periods),
             Sorted(lyapunov),
             sampleRows is null ? null : Rows(sampleRows),
-            attractors ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : null,
+            !attractors ? null : labeller is null ? await AttractorLabels.ReadAsync(run, Sorted(points), token) : await labeller.LabelPartAsync(parts.Single(), Sorted(points), token),
             hysteresis is null ? null : Sorted(hysteresis),
             backwardRows is null ? null : Rows(backwardRows));
     }
