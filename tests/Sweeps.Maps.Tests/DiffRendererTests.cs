@@ -73,6 +73,51 @@ public sealed class DiffRendererTests : IDisposable
         Assert.Equal((expected.R, expected.G, expected.B), (pixel.Red, pixel.Green, pixel.Blue));
     }
 
+    // Continuation sweeps hold whole lines per part; with the followed axis slowest, a line's points lie three apart, so
+    // the parts of two runs chunked differently interleave in point order. Walked line by line, the diff must find what
+    // the two runs read whole and matched point by point find: the same points compared and in one run only, every
+    // point's change code, and the changed points in point order.
+    [Fact]
+    public async Task Diff_OfContinuationSweeps_MatchesThePointsOfTwoWholeRuns()
+    {
+        const string grid = "r = { from = 2.8, to = 3.6, steps = 21 }\nx = { values = [0.2, 0.5, 0.8] }\nfollow = \"r\"";
+        var coarse = await TestRuns.CreateAsync(Path.Combine(folder, "lines"), TestRuns.Logistic(grid), chunkSize: 21);
+        var roughConfig = TestRuns.Logistic(grid).Replace("transient = 2000", "transient = 3", StringComparison.Ordinal).Replace("measure = 1000", "measure = 64", StringComparison.Ordinal);
+        var spec = SpecReader.Parse(roughConfig, "test.toml");
+        var (rough, _) = RunDirectory.CreateOrResume(Path.Combine(folder, "rough-lines", "run"), spec, roughConfig, [], 42, TimeProvider.System);
+        var context = new RunContext(rough);
+        await ChunkRunner.RunAsync(context, 1, null, CancellationToken.None); // the third line only
+        var complete = await TestRuns.CreateAsync(Path.Combine(folder, "rough-all"), roughConfig, chunkSize: 42);
+
+        foreach (var other in new[] { rough, complete })
+        {
+            var codes = new Dictionary<long, byte>();
+            var diff = await RunDiff.CompareAsync(coarse, other, (part, code) =>
+            {
+                for (var row = 0; row < part.Count; row++)
+                {
+                    codes[part.Point[row]] = code[row];
+                }
+            });
+
+            var before = await RunTable.ReadAsync(coarse, samples: false);
+            var after = await RunTable.ReadAsync(other, samples: false);
+            var rowOf = Enumerable.Range(0, before.Count).ToDictionary(row => before.Point[row]);
+            var both = Enumerable.Range(0, after.Count).Where(row => rowOf.ContainsKey(after.Point[row])).ToArray();
+            Assert.Equal(both.Length, diff.Compared);
+            Assert.Equal(before.Count + after.Count - (2 * both.Length), diff.OnlyInOne);
+            byte Code(int row) => before.Regime[rowOf[after.Point[row]]] != after.Regime[row] ? RunDiff.Regime
+                : before.Period[rowOf[after.Point[row]]] != after.Period[row] ? RunDiff.PeriodOnly : RunDiff.Unchanged;
+            Assert.All(both, row => Assert.Equal(Code(row), codes[after.Point[row]]));
+            var changed = both.Where(row => Code(row) != RunDiff.Unchanged).ToArray();
+            Assert.NotEmpty(changed);
+            Assert.Equal(changed.Select(row => after.Point[row]), diff.Changed.Point);
+            Assert.Equal(changed.Select(row => before.Regime[rowOf[after.Point[row]]]), diff.Changed.RegimeBefore);
+            Assert.Equal(changed.Select(row => after.Period[row]), diff.Changed.PeriodAfter);
+            Assert.Equal(changed.Select(row => after.Axes[1][row]), diff.Changed.Axes[1]);
+        }
+    }
+
     public void Dispose()
     {
         if (Directory.Exists(folder))

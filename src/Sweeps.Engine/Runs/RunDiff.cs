@@ -54,16 +54,19 @@ public sealed record RunDiff(
             : a.Manifest.ModelHash != b.Manifest.ModelHash ? "the model changed" : "settings changed (same model)";
 
         // Both runs' parts hold ascending point ranges: the same points are found by walking them side by side. The
-        // parts of a continuation sweep hold whole lines, whose points interleave: those runs are read whole.
+        // parts of a continuation sweep hold whole lines in line order, whose points interleave: those are walked in
+        // line order (line, then step along it), which rises from part to part as the point index does elsewhere.
         var grid = a.LoadSpec().Grid;
         var lines = grid.Follow is not null;
-        await using var earlier = InOrder(a, lines, token).GetAsyncEnumerator(token);
+        await using var earlier = RunTable.ReadEachPartAsync(a, samples: false, token: token).GetAsyncEnumerator(token);
         var (before, i, beforeRows) = ((RunTable?)null, 0, 0L);
+        var (beforeKeys, beforeOrder) = (Array.Empty<long>(), (int[]?)null);
         async Task<bool> NextBefore()
         {
             while (await earlier.MoveNextAsync())
             {
                 (before, i) = (earlier.Current, 0);
+                (beforeKeys, beforeOrder) = Walk(grid, before, lines);
                 beforeRows += before.Count;
                 if (before.Count > 0)
                 {
@@ -79,40 +82,42 @@ public sealed record RunDiff(
         var transitions = new Dictionary<(string, string), long>();
         var changed = new ChangedPoints(grid.Axes.Count);
         var (regimeChanged, periodChanged, shifted, compared, largest, afterRows) = (0L, 0L, 0L, 0L, 0.0, 0L);
-        await foreach (var after in InOrder(b, lines, token))
+        await foreach (var after in RunTable.ReadEachPartAsync(b, samples: false, token: token))
         {
             afterRows += after.Count;
             var codes = new byte[after.Count];
-            for (var j = 0; j < after.Count; j++)
+            var (afterKeys, afterOrder) = Walk(grid, after, lines);
+            for (var step = 0; step < after.Count; step++)
             {
-                while (more && before!.Point[i] < after.Point[j])
+                while (more && beforeKeys[i] < afterKeys[step])
                 {
-                    more = ++i < before.Count || await NextBefore();
+                    more = ++i < before!.Count || await NextBefore();
                 }
 
-                if (!more || before!.Point[i] != after.Point[j])
+                if (!more || beforeKeys[i] != afterKeys[step])
                 {
                     continue;
                 }
 
+                var (r, j) = (beforeOrder?[i] ?? i, afterOrder?[step] ?? step);
                 compared++;
-                var regimeDiffers = before.Regime[i] != after.Regime[j];
-                var periodDiffers = !regimeDiffers && before.Period[i] != after.Period[j];
+                var regimeDiffers = before!.Regime[r] != after.Regime[j];
+                var periodDiffers = !regimeDiffers && before.Period[r] != after.Period[j];
                 if (regimeDiffers)
                 {
                     regimeChanged++;
-                    var key = (before.Regime[i], after.Regime[j]);
+                    var key = (before.Regime[r], after.Regime[j]);
                     transitions[key] = transitions.GetValueOrDefault(key) + 1;
                 }
 
                 periodChanged += periodDiffers ? 1 : 0;
                 if (regimeDiffers || periodDiffers)
                 {
-                    changed.Add(before, i, after, j);
+                    changed.Add(before, r, after, j);
                     codes[j] = regimeDiffers ? Regime : PeriodOnly;
                 }
 
-                var (x, y) = (before.Lyapunov[i], after.Lyapunov[j]);
+                var (x, y) = (before.Lyapunov[r], after.Lyapunov[j]);
                 var shift = double.IsFinite(x) && double.IsFinite(y) ? Math.Abs(x - y) : (x.Equals(y) ? 0 : double.PositiveInfinity);
                 if (shift > ExponentTolerance)
                 {
@@ -130,22 +135,29 @@ public sealed record RunDiff(
         }
 
         var onlyInOne = (beforeRows - compared) + (afterRows - compared);
+        if (lines)
+        {
+            changed.SortByPoint();
+        }
+
         return new RunDiff(specChange, compared, onlyInOne, transitions, regimeChanged, periodChanged, shifted, largest, changed);
     }
 
-    /// <summary>The run's rows in point order: part by part, or (<paramref name="whole"/>) all at once as one table.</summary>
-    private static async IAsyncEnumerable<RunTable> InOrder(RunDirectory run, bool whole, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token)
+    /// <summary>
+    /// The order a part is walked in: its rows by point index, or along lines (<see cref="Specs.Grid.LineOrder"/>) for a
+    /// continuation sweep — each row's key and, where that is not the rows' own order, the rows in key order.
+    /// </summary>
+    private static (long[] Keys, int[]? Order) Walk(Specs.Grid grid, RunTable table, bool lines)
     {
-        if (whole)
+        if (!lines)
         {
-            yield return await RunTable.ReadAsync(run, samples: false, token);
-            yield break;
+            return (table.Point, null);
         }
 
-        await foreach (var part in RunTable.ReadEachPartAsync(run, samples: false, token: token))
-        {
-            yield return part;
-        }
+        var keys = table.Point.Select(grid.LineOrder).ToArray();
+        var order = Enumerable.Range(0, table.Count).ToArray();
+        Array.Sort(keys.ToArray(), order);
+        return (order.Select(row => keys[row]).ToArray(), order);
     }
 
     /// <summary>The changed points (regime or period) as Parquet: point, axes, and both sides' regime, period and λ1.</summary>
@@ -198,6 +210,31 @@ public sealed record RunDiff(
         public List<double> LyapunovAfter { get; } = [];
 
         public int Count => Point.Count;
+
+        /// <summary>Puts the points in point order (they were found along lines).</summary>
+        internal void SortByPoint()
+        {
+            var order = Enumerable.Range(0, Count).OrderBy(k => Point[k]).ToArray();
+            static void Reorder<T>(List<T> list, int[] order)
+            {
+                var sorted = order.Select(k => list[k]).ToList();
+                list.Clear();
+                list.AddRange(sorted);
+            }
+
+            Reorder(Point, order);
+            foreach (var axis in Axes)
+            {
+                Reorder(axis, order);
+            }
+
+            Reorder(RegimeBefore, order);
+            Reorder(RegimeAfter, order);
+            Reorder(PeriodBefore, order);
+            Reorder(PeriodAfter, order);
+            Reorder(LyapunovBefore, order);
+            Reorder(LyapunovAfter, order);
+        }
 
         internal void Add(RunTable before, int i, RunTable after, int j)
         {

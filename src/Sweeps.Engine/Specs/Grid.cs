@@ -54,6 +54,28 @@ public sealed record Grid(IReadOnlyList<GridAxis> Axes, int? Follow = null)
 
     public long LineCount => PointCount / LineLength;
 
+    /// <summary>
+    /// Where a point comes when the grid is walked line by line: line × <see cref="LineLength"/> + step, the inverse of
+    /// <see cref="LinePoint"/> (the point index itself without a followed axis).
+    /// </summary>
+    public long LineOrder(long point)
+    {
+        if (Follow is not { } follow)
+        {
+            return point;
+        }
+
+        Span<long> indices = stackalloc long[Axes.Count];
+        Indices(point, indices);
+        var line = 0L;
+        for (var a = 0; a < Axes.Count; a++)
+        {
+            line = a == follow ? line : (line * Axes[a].Count) + indices[a];
+        }
+
+        return (line * Axes[follow].Count) + indices[follow];
+    }
+
     /// <summary>The point index of the <paramref name="step"/>-th point of line <paramref name="line"/>.</summary>
     public long LinePoint(long line, long step)
     {

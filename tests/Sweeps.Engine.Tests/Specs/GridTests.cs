@@ -35,6 +35,28 @@ public sealed class GridTests
     }
 
     [Fact]
+    public void LineOrder_InvertsLinePoint_ForRandomGridsAndFollowedAxes()
+    {
+        // Walking the lines in order, step by step, visits every point once: line × length + step (an exact identity).
+        Gen.Select(Gen.Int[1, 5].Array[1, 4], Gen.Int[0, 3]).Sample((shape, follow) =>
+        {
+            var grid = new Grid(shape.Select((count, i) => new GridAxis($"p{i}", AxisTarget.Parameter, i, 0, 1, count)).ToArray(), follow % shape.Length);
+            var seen = new HashSet<long>();
+            for (var line = 0L; line < grid.LineCount; line++)
+            {
+                for (var step = 0L; step < grid.LineLength; step++)
+                {
+                    var point = grid.LinePoint(line, step);
+                    Assert.True(seen.Add(point));
+                    Assert.Equal((line * grid.LineLength) + step, grid.LineOrder(point));
+                }
+            }
+
+            Assert.Equal(grid.PointCount, seen.Count);
+        });
+    }
+
+    [Fact]
     public void Indices_AreRowMajor_LastAxisFastest()
     {
         var grid = new Grid([new GridAxis("a", AxisTarget.Parameter, 0, 0, 1, 3), new GridAxis("b", AxisTarget.Parameter, 1, 0, 1, 4)]);
