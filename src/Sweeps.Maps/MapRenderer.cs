@@ -218,11 +218,10 @@ public static class MapRenderer
         plot.Legend.FontSize = 13;
     }
 
-    /// <summary>One entry per attractor label on the plane (those beyond the palette share one): its number, class and where it sits.</summary>
     /// <summary>An attractor label as the legend groups it: labels beyond the palette share one entry.</summary>
     internal static int AttractorBucket(int label) => Math.Min(label, Palette.AttractorColors.Length);
 
-    /// <summary>The legend entries of the attractor labels met (<see cref="AttractorBucket"/>), named by the attractors behind them.</summary>
+    /// <summary>One entry per attractor label met (<see cref="AttractorBucket"/>): its number, class and where it sits.</summary>
     internal static IEnumerable<(string, Color)> AttractorLegend(IEnumerable<int> buckets, IReadOnlyList<Core.Attractors.AttractorSignature> known)
     {
         var shown = Palette.AttractorColors.Length;

@@ -101,21 +101,7 @@ public sealed class MapRendererTests : IDisposable
     [Fact]
     public async Task AttractorMap_GivesEachAttractorOneColour_AcrossTheGrid()
     {
-        const string config = """
-            [model]
-            kind = "map"
-            variables = ["x"]
-            parameters = ["a"]
-            [model.equations]
-            x = "a*x - x^3"
-            [grid]
-            a = { values = [1.3, 1.5, 1.7] }
-            x = { from = -0.95, to = 0.95, steps = 20 }
-            [analysis]
-            transient = 2000
-            measure = 500
-            max_period = 8
-            """;
+        var config = TestRuns.Cubic("a = { values = [1.3, 1.5, 1.7] }\nx = { from = -0.95, to = 0.95, steps = 20 }");
         var run = await TestRuns.CreateAsync(folder, config, chunkSize: 7);
         var table = await RunTable.ReadAsync(run, samples: false, attractors: true);
         var labels = table.Attractors!;
@@ -257,27 +243,11 @@ public sealed class MapRendererTests : IDisposable
     [Fact]
     public async Task AttractorMap_ReadPartByPart_IsTheSamePicture()
     {
-        const string cubic = """
-            [model]
-            kind = "map"
-            variables = ["x"]
-            parameters = ["a"]
-            [model.equations]
-            x = "a*x - x^3"
-            [grid]
-            a = { from = 1.1, to = 2.2, steps = 12 }
-            x = { from = -0.95, to = 0.95, steps = 20 }
-            [analysis]
-            transient = 2000
-            measure = 500
-            max_period = 8
-            samples = 4
-            """;
-        var plane = await TestRuns.CreateAsync(Path.Combine(folder, "cubic-plane"), cubic, chunkSize: 37);
+        const string a = "a = { from = 1.1, to = 2.2, steps = 12 }";
+        var plane = await TestRuns.CreateAsync(Path.Combine(folder, "cubic-plane"), TestRuns.Cubic(a + "\nx = { from = -0.95, to = 0.95, steps = 20 }", "samples = 4"), chunkSize: 37);
         var starts = await TestRuns.CreateAsync(
             Path.Combine(folder, "cubic-starts"),
-            cubic.Replace("x = { from = -0.95, to = 0.95, steps = 20 }", "", StringComparison.Ordinal)
-                + "\n[initial]\nx = 0.3\n[starts]\nx = { from = -1, to = 1, steps = 6 }\n",
+            TestRuns.Cubic(a, "samples = 4") + "\n[initial]\nx = 0.3\n[starts]\nx = { from = -1, to = 1, steps = 6 }\n",
             chunkSize: 3);
         foreach (var (run, request) in new[]
         {

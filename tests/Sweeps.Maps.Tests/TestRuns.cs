@@ -20,6 +20,23 @@ internal static class TestRuns
         return run;
     }
 
+    /// <summary>A cubic map x ↦ a·x − x³ (two attractors ±√(a − 1) for 1 &lt; a &lt; 2) on <paramref name="grid"/>, with more analysis settings if given.</summary>
+    public static string Cubic(string grid, string analysis = "") => $"""
+        [model]
+        kind = "map"
+        variables = ["x"]
+        parameters = ["a"]
+        [model.equations]
+        x = "a*x - x^3"
+        [grid]
+        {grid}
+        [analysis]
+        transient = 2000
+        measure = 500
+        max_period = 8
+        {analysis}
+        """;
+
     public static string Logistic(string grid) => (grid.Contains("x =", StringComparison.Ordinal) ? "" : "[initial]\nx = 0.3\n") + $"""
         [model]
         kind = "map"

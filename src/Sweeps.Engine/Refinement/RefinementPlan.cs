@@ -16,7 +16,9 @@ public sealed class RefinementPlan
 {
     private readonly Grid baseGrid;
     private readonly int finest;
-    private readonly Grid finestGrid;
+    private readonly Grid[] lattices;
+    private readonly long[][] toFinest;
+    private readonly bool[] refined;
     private readonly int[] run;
     private readonly Dictionary<long, int> known = [];
     private readonly List<string> regimes = [];
@@ -32,7 +34,9 @@ public sealed class RefinementPlan
 
         baseGrid = grid;
         this.finest = finest;
-        finestGrid = LevelGrid.At(grid, finest);
+        lattices = Enumerable.Range(0, finest + 1).Select(level => LevelGrid.At(grid, level)).ToArray();
+        toFinest = Enumerable.Range(0, finest + 1).Select(level => LevelGrid.Scale(grid, finest - level)).ToArray();
+        refined = Enumerable.Range(0, grid.Axes.Count).Select(a => LevelGrid.Refinable(grid, a)).ToArray();
         run = new int[grid.PointCount];
     }
 
@@ -51,7 +55,7 @@ public sealed class RefinementPlan
         }
 
         var indices = new long[baseGrid.Axes.Count];
-        LevelGrid.At(baseGrid, level).Indices(point, indices);
+        lattices[level].Indices(point, indices);
         if (RunPoint(indices, level) is { } own)
         {
             KnownPoints += run[own] == 0 ? 1 : 0;
@@ -59,7 +63,7 @@ public sealed class RefinementPlan
             return;
         }
 
-        var key = Key(indices, LevelGrid.Scale(baseGrid, finest - level));
+        var key = Key(indices, level);
         KnownPoints += known.ContainsKey(key) ? 0 : 1;
         known[key] = value;
     }
@@ -83,8 +87,8 @@ public sealed class RefinementPlan
     }
 
     /// <summary>What is known of the point at <paramref name="indices"/> on level <paramref name="level"/>'s lattice (0: nothing).</summary>
-    private int Known(long[] indices, int level, long[] toFinest) =>
-        RunPoint(indices, level) is { } own ? run[own] : known.GetValueOrDefault(Key(indices, toFinest));
+    private int Known(long[] indices, int level) =>
+        RunPoint(indices, level) is { } own ? run[own] : known.GetValueOrDefault(Key(indices, level));
 
     /// <summary>The run's own point at <paramref name="indices"/> on level <paramref name="level"/>'s lattice, if it is one (every refined index a multiple of 2^level).</summary>
     private long? RunPoint(long[] indices, int level)
@@ -93,7 +97,7 @@ public sealed class RefinementPlan
         Span<long> own = stackalloc long[indices.Length];
         for (var a = 0; a < indices.Length; a++)
         {
-            if (!LevelGrid.Refinable(baseGrid, a))
+            if (!refined[a])
             {
                 own[a] = indices[a];
                 continue;
@@ -124,11 +128,9 @@ public sealed class RefinementPlan
         }
 
         var axes = baseGrid.Axes.Count;
-        var refinable = Enumerable.Range(0, axes).Where(a => LevelGrid.Refinable(baseGrid, a)).ToArray();
-        var coarse = LevelGrid.At(baseGrid, level - 1);
-        var fine = LevelGrid.At(baseGrid, level);
-        var toFinest = LevelGrid.Scale(baseGrid, finest - (level - 1));
-        var fineToFinest = LevelGrid.Scale(baseGrid, finest - level);
+        var refinable = Enumerable.Range(0, axes).Where(a => refined[a]).ToArray();
+        var coarse = lattices[level - 1];
+        var fine = lattices[level];
         var corner = new long[axes];
         var indices = new long[axes];
         var added = new HashSet<long>();
@@ -147,7 +149,7 @@ public sealed class RefinementPlan
                     corner[refinable[k]] += (mask >> k) & 1;
                 }
 
-                var value = Known(corner, level - 1, toFinest);
+                var value = Known(corner, level - 1);
                 if (value == 0)
                 {
                     complete = false;
@@ -185,7 +187,7 @@ public sealed class RefinementPlan
                     rest /= 3;
                 }
 
-                if (Known(indices, level, fineToFinest) == 0)
+                if (Known(indices, level) == 0)
                 {
                     added.Add(fine.PointIndex(indices));
                 }
@@ -246,14 +248,15 @@ public sealed class RefinementPlan
         }
     }
 
-    private long Key(long[] indices, long[] scale)
+    /// <summary>The index on the finest lattice of the point at <paramref name="indices"/> on level <paramref name="level"/>'s.</summary>
+    private long Key(long[] indices, int level)
     {
-        var scaled = new long[indices.Length];
+        Span<long> scaled = stackalloc long[indices.Length];
         for (var a = 0; a < indices.Length; a++)
         {
-            scaled[a] = indices[a] * scale[a];
+            scaled[a] = indices[a] * toFinest[level][a];
         }
 
-        return finestGrid.PointIndex(scaled);
+        return lattices[finest].PointIndex(scaled);
     }
 }

@@ -87,19 +87,19 @@ public sealed record RunDiff(
             afterRows += after.Count;
             var codes = new byte[after.Count];
             var (afterKeys, afterOrder) = Walk(grid, after, lines);
-            for (var step = 0; step < after.Count; step++)
+            for (var k = 0; k < after.Count; k++)
             {
-                while (more && beforeKeys[i] < afterKeys[step])
+                while (more && beforeKeys[i] < afterKeys[k])
                 {
                     more = ++i < before!.Count || await NextBefore();
                 }
 
-                if (!more || beforeKeys[i] != afterKeys[step])
+                if (!more || beforeKeys[i] != afterKeys[k])
                 {
                     continue;
                 }
 
-                var (r, j) = (beforeOrder?[i] ?? i, afterOrder?[step] ?? step);
+                var (r, j) = (beforeOrder?[i] ?? i, afterOrder?[k] ?? k);
                 compared++;
                 var regimeDiffers = before!.Regime[r] != after.Regime[j];
                 var periodDiffers = !regimeDiffers && before.Period[r] != after.Period[j];
@@ -156,8 +156,8 @@ public sealed record RunDiff(
 
         var keys = table.Point.Select(grid.LineOrder).ToArray();
         var order = Enumerable.Range(0, table.Count).ToArray();
-        Array.Sort(keys.ToArray(), order);
-        return (order.Select(row => keys[row]).ToArray(), order);
+        Array.Sort(keys, order);
+        return (keys, order);
     }
 
     /// <summary>The changed points (regime or period) as Parquet: point, axes, and both sides' regime, period and λ1.</summary>
