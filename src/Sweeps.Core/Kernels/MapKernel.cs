@@ -19,9 +19,10 @@ internal delegate void RecordingSteps(Vector256<double>[] x, Vector256<double>[]
 
 /// <summary>
 /// Run-time generated loops for one-variable maps (System.Linq.Expressions → JIT, full optimisation at once):
-/// the whole step loop for 32 orbits side by side, eight independent Vector256 chains, so the vector units and
-/// the instruction-level parallelism of the core are used — one delegate call advances 32 points by many
-/// steps. The code comes from the same <see cref="NodeEmitter"/> as the scalar delegates, on the same
+/// the whole step loop for 32 orbits side by side — eight independent Vector256 chains, or four Vector512 chains where
+/// the processor has 512-bit vectors (twice the lanes per instruction) — so the vector units and the instruction-level
+/// parallelism of the core are used; one delegate call advances 32 points by many steps. The caller's state is eight
+/// Vector256 per quantity either way (a wide loop joins them in pairs on entry and splits them on exit). The code comes from the same <see cref="NodeEmitter"/> as the scalar delegates, on the same
 /// expression trees, so every operation is the scalar one in the same order; IEEE arithmetic is lane-wise, and functions without an exact vector
 /// form are called lane by lane, so each lane's orbit equals the scalar orbit bit for bit. A lane whose orbit
 /// escapes, turns non-finite or whose running product leaves the safe range is flagged; its point is then
@@ -33,41 +34,40 @@ internal sealed class MapKernel
     public const int Width = 4;
     public const int Lanes = Groups * Width;
 
-    private static readonly MethodInfo Abs = Generic(nameof(Vector256.Abs), 1);
-    private static readonly MethodInfo GreaterThan = Generic(nameof(Vector256.GreaterThan), 2);
-    private static readonly MethodInfo LessThan = Generic(nameof(Vector256.LessThan), 2);
-    private static readonly MethodInfo LessThanOrEqual = Generic(nameof(Vector256.LessThanOrEqual), 2);
-    private static readonly MethodInfo BitwiseAnd = Generic(nameof(Vector256.BitwiseAnd), 2);
-    private static readonly MethodInfo BitwiseOr = Generic(nameof(Vector256.BitwiseOr), 2);
-    private static readonly MethodInfo OnesComplement = Generic(nameof(Vector256.OnesComplement), 1);
-    private static readonly MethodInfo GetElement = Generic(nameof(Vector256.GetElement), 2);
-    private static readonly MethodInfo Create = typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double), typeof(double), typeof(double), typeof(double)])!;
-    private static readonly MethodInfo CopyTo = typeof(Vector256).GetMethods(BindingFlags.Public | BindingFlags.Static)
-        .First(m => m.Name == nameof(Vector256.CopyTo) && m.IsGenericMethodDefinition && m.GetParameters().Length == 3 && m.GetParameters()[1].ParameterType.IsArray)
-        .MakeGenericMethod(typeof(double));
-    private static readonly MethodInfo Broadcast = typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double)])!;
+    /// <summary>
+    /// Doubles per vector of the generated loops where the caller leaves it open: eight where the processor has
+    /// 512-bit vectors (twice the lanes per instruction), else four. The lanes' arithmetic is the same either way.
+    /// </summary>
+    public static int PreferredWidth => Vector512.IsHardwareAccelerated ? 8 : 4;
 
-    // Compiled kernels per model and escape bound: a process computes many chunks of one run, and compiling
-    // four loops costs milliseconds. Delegates are thread-safe; the per-thread state lives in the caller.
-    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Model, System.Collections.Concurrent.ConcurrentDictionary<double, Lazy<MapKernel>>> Compiled = new();
+    // Compiled kernels per model, escape bound and vector width: a process computes many chunks of one run, and
+    // compiling four loops costs milliseconds. Delegates are thread-safe; the per-thread state lives in the caller.
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Model, System.Collections.Concurrent.ConcurrentDictionary<(double, int), Lazy<MapKernel>>> Compiled = new();
 
-    /// <summary>The kernels of <paramref name="model"/>, compiled once per model instance and escape bound.</summary>
-    public static MapKernel For(Model model, double escape, double safeLow, double safeHigh) =>
-        Compiled.GetValue(model, _ => new()).GetOrAdd(escape, e => new Lazy<MapKernel>(() => new MapKernel(model, e, safeLow, safeHigh))).Value;
+    /// <summary>The kernels of <paramref name="model"/>, compiled once per model instance, escape bound and vector width (4 or 8).</summary>
+    public static MapKernel For(Model model, double escape, double safeLow, double safeHigh, int width) =>
+        Compiled.GetValue(model, _ => new()).GetOrAdd((escape, width), key => new Lazy<MapKernel>(() => new MapKernel(model, key.Item1, safeLow, safeHigh, key.Item2))).Value;
 
-    public MapKernel(Model model, double escape, double safeLow, double safeHigh)
+    public MapKernel(Model model, double escape, double safeLow, double safeHigh, int width)
     {
         if (model.Kind != ModelKind.Map || model.Dimension != 1)
         {
             throw new ArgumentException("the block kernel is for one-variable maps", nameof(model));
         }
 
+        var vector = width switch
+        {
+            Width => Vectors.Narrow,
+            2 * Width => Vectors.Wide,
+            _ => throw new ArgumentOutOfRangeException(nameof(width), width, "the block kernel's vectors hold 4 or 8 doubles"),
+        };
+
         // Each loop is compiled when first asked for (a few milliseconds each): without exponents the measuring
         // loops are never needed, with them the plain recording loop is not.
-        transient = new(() => Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: false, record: false));
-        measure = new(() => Build<BlockSteps>(model, escape, safeLow, safeHigh, derivative: true, record: false));
-        recordPlain = new(() => Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: false, record: true));
-        recordMeasure = new(() => Build<RecordingSteps>(model, escape, safeLow, safeHigh, derivative: true, record: true));
+        transient = new(() => Build<BlockSteps>(model, vector, escape, safeLow, safeHigh, derivative: false, record: false));
+        measure = new(() => Build<BlockSteps>(model, vector, escape, safeLow, safeHigh, derivative: true, record: false));
+        recordPlain = new(() => Build<RecordingSteps>(model, vector, escape, safeLow, safeHigh, derivative: false, record: true));
+        recordMeasure = new(() => Build<RecordingSteps>(model, vector, escape, safeLow, safeHigh, derivative: true, record: true));
     }
 
     private readonly Lazy<BlockSteps> transient;
@@ -87,7 +87,7 @@ internal sealed class MapKernel
     /// <summary>product ← product·|f'(x)|, then x ← f(x); flags lanes whose product leaves the safe range or whose x escapes.</summary>
     public BlockSteps Measure => measure.Value;
 
-    private static TDelegate Build<TDelegate>(Model model, double escape, double safeLow, double safeHigh, bool derivative, bool record)
+    private static TDelegate Build<TDelegate>(Model model, Vectors vector, double escape, double safeLow, double safeHigh, bool derivative, bool record)
     {
         var window = LinqExpression.Parameter(typeof(double[]), "window");
         var slot = LinqExpression.Parameter(typeof(int), "slot");
@@ -106,30 +106,33 @@ internal sealed class MapKernel
             var bits = BitConverter.DoubleToInt64Bits(value);
             if (!constants.TryGetValue(bits, out var variable))
             {
-                variable = LinqExpression.Variable(typeof(Vector256<double>));
+                variable = LinqExpression.Variable(vector.Type);
                 variables.Add(variable);
-                body.Add(LinqExpression.Assign(variable, LinqExpression.Call(Broadcast, LinqExpression.Constant(value))));
+                body.Add(LinqExpression.Assign(variable, LinqExpression.Call(vector.Broadcast, LinqExpression.Constant(value))));
                 constants[bits] = variable;
             }
 
             return variable;
         }
 
+        // The caller's state is eight four-lane vectors per quantity; a wide loop joins them in pairs.
+        var groups = Lanes / vector.Width;
+        var span = vector.Width / Width;
         var escapeVector = Constant(escape);
         var low = Constant(safeLow);
         var high = Constant(safeHigh);
-        var state = new ParameterExpression[Groups];
-        var running = new ParameterExpression[Groups];
-        var flags = new ParameterExpression[Groups];
-        var parameters = new ParameterExpression[model.Source.Parameters.Count, Groups];
-        for (var g = 0; g < Groups; g++)
+        var state = new ParameterExpression[groups];
+        var running = new ParameterExpression[groups];
+        var flags = new ParameterExpression[groups];
+        var parameters = new ParameterExpression[model.Source.Parameters.Count, groups];
+        for (var g = 0; g < groups; g++)
         {
-            state[g] = Local(variables, body, LinqExpression.ArrayIndex(x, LinqExpression.Constant(g)));
-            running[g] = Local(variables, body, LinqExpression.ArrayIndex(product, LinqExpression.Constant(g)));
-            flags[g] = Local(variables, body, LinqExpression.ArrayIndex(flagged, LinqExpression.Constant(g)));
+            state[g] = Local(variables, body, vector, vector.Load(x, g * span));
+            running[g] = Local(variables, body, vector, vector.Load(product, g * span));
+            flags[g] = Local(variables, body, vector, vector.Load(flagged, g * span));
             for (var k = 0; k < parameters.GetLength(0); k++)
             {
-                parameters[k, g] = Local(variables, body, LinqExpression.ArrayIndex(p, LinqExpression.Constant((k * Groups) + g)));
+                parameters[k, g] = Local(variables, body, vector, vector.Load(p, (k * Groups) + (g * span)));
             }
         }
 
@@ -138,36 +141,36 @@ internal sealed class MapKernel
         body.Add(LinqExpression.Assign(step, LinqExpression.Constant(0)));
         var loopBody = new List<LinqExpression>();
         var temporaries = new List<ParameterExpression>();
-        for (var g = 0; g < Groups; g++)
+        for (var g = 0; g < groups; g++)
         {
-            var emitter = Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
+            var emitter = Emitter(vector, state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
             if (derivative)
             {
-                var growth = LinqExpression.Call(Abs, emitter.Emit(model.Jacobian[0]));
+                var growth = LinqExpression.Call(vector.Abs, emitter.Emit(model.Jacobian[0]));
                 temporaries.AddRange(emitter.Temporaries);
                 loopBody.Add(LinqExpression.Assign(running[g], LinqExpression.Multiply(running[g], growth)));
-                var inside = LinqExpression.Call(BitwiseAnd, LinqExpression.Call(GreaterThan, running[g], low), LinqExpression.Call(LessThan, running[g], high));
-                loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(BitwiseOr, flags[g], LinqExpression.Call(OnesComplement, inside))));
+                var inside = LinqExpression.Call(vector.BitwiseAnd, LinqExpression.Call(vector.GreaterThan, running[g], low), LinqExpression.Call(vector.LessThan, running[g], high));
+                loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(vector.BitwiseOr, flags[g], LinqExpression.Call(vector.OnesComplement, inside))));
             }
         }
 
-        // All derivatives first (they read x before the step), then all the steps: the eight chains interleave.
-        for (var g = 0; g < Groups; g++)
+        // All derivatives first (they read x before the step), then all the steps: the chains interleave.
+        for (var g = 0; g < groups; g++)
         {
-            var emitter = Emitter(state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
+            var emitter = Emitter(vector, state[g], Enumerable.Range(0, parameters.GetLength(0)).Select(k => parameters[k, g]).ToArray(), Constant);
             loopBody.Add(LinqExpression.Assign(state[g], emitter.Emit(model.Equations[0])));
             temporaries.AddRange(emitter.Temporaries);
-            var bounded = LinqExpression.Call(LessThanOrEqual, LinqExpression.Call(Abs, state[g]), escapeVector);
-            loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(BitwiseOr, flags[g], LinqExpression.Call(OnesComplement, bounded))));
+            var bounded = LinqExpression.Call(vector.LessThanOrEqual, LinqExpression.Call(vector.Abs, state[g]), escapeVector);
+            loopBody.Add(LinqExpression.Assign(flags[g], LinqExpression.Call(vector.BitwiseOr, flags[g], LinqExpression.Call(vector.OnesComplement, bounded))));
         }
 
         if (record)
         {
-            // window[(slot + step) · Lanes + g · Width …] = x_g
+            // window[(slot + step) · Lanes + g · width …] = x_g
             var row = LinqExpression.Multiply(LinqExpression.Add(slot, step), LinqExpression.Constant(Lanes));
-            for (var g = 0; g < Groups; g++)
+            for (var g = 0; g < groups; g++)
             {
-                loopBody.Add(LinqExpression.Call(CopyTo, state[g], window, LinqExpression.Add(row, LinqExpression.Constant(g * Width))));
+                loopBody.Add(LinqExpression.Call(vector.CopyTo, state[g], window, LinqExpression.Add(row, LinqExpression.Constant(g * vector.Width))));
             }
         }
 
@@ -179,11 +182,11 @@ internal sealed class MapKernel
                 LinqExpression.Block(temporaries, loopBody),
                 LinqExpression.Break(exit)),
             exit));
-        for (var g = 0; g < Groups; g++)
+        for (var g = 0; g < groups; g++)
         {
-            body.Add(LinqExpression.Assign(LinqExpression.ArrayAccess(x, LinqExpression.Constant(g)), state[g]));
-            body.Add(LinqExpression.Assign(LinqExpression.ArrayAccess(product, LinqExpression.Constant(g)), running[g]));
-            body.Add(LinqExpression.Assign(LinqExpression.ArrayAccess(flagged, LinqExpression.Constant(g)), flags[g]));
+            body.AddRange(vector.Store(x, g * span, state[g]));
+            body.AddRange(vector.Store(product, g * span, running[g]));
+            body.AddRange(vector.Store(flagged, g * span, flags[g]));
         }
 
         var block = LinqExpression.Block(variables, body);
@@ -192,25 +195,20 @@ internal sealed class MapKernel
             : LinqExpression.Lambda<TDelegate>(block, x, p, product, flagged, steps).Compile();
     }
 
-    private static ParameterExpression Local(List<ParameterExpression> variables, List<LinqExpression> body, LinqExpression value)
+    private static ParameterExpression Local(List<ParameterExpression> variables, List<LinqExpression> body, Vectors vector, LinqExpression value)
     {
-        var variable = LinqExpression.Variable(typeof(Vector256<double>));
+        var variable = LinqExpression.Variable(vector.Type);
         variables.Add(variable);
         body.Add(LinqExpression.Assign(variable, value));
         return variable;
     }
 
-    private static MethodInfo Generic(string name, int arguments) =>
-        typeof(Vector256).GetMethods(BindingFlags.Public | BindingFlags.Static)
-            .First(m => m.Name == name && m.IsGenericMethodDefinition && m.GetParameters().Length == arguments)
-            .MakeGenericMethod(typeof(double));
-
-    /// <summary>The shared emitter over four lanes: the scalar operations, lane-wise; catalog functions lane by lane.</summary>
-    private static NodeEmitter Emitter(ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant)
+    /// <summary>The shared emitter over a vector's lanes: the scalar operations, lane-wise; catalog functions lane by lane.</summary>
+    private static NodeEmitter Emitter(Vectors vector, ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant)
     {
         NodeEmitter? emitter = null;
         emitter = new NodeEmitter(
-            typeof(Vector256<double>),
+            vector.Type,
             value => constant(value),
             symbol => symbol.Kind switch
             {
@@ -218,7 +216,7 @@ internal sealed class MapKernel
                 SymbolKind.Parameter => p[symbol.Index],
                 _ => throw new ArgumentException("a map has no time"),
             },
-            (method, arguments) => PerLane(emitter!, method, arguments));
+            (method, arguments) => PerLane(emitter!, vector, method, arguments));
         return emitter;
     }
 
@@ -226,19 +224,134 @@ internal sealed class MapKernel
     /// A function on four lanes: its vector form where the catalog has one with the scalar bits in every lane
     /// (<see cref="FunctionCatalog.LaneMethod"/>), else the scalar method on each lane, reassembled.
     /// </summary>
-    internal static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
+    internal static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments) =>
+        PerLane(emitter, Vectors.Narrow, method, arguments);
+
+    /// <summary>
+    /// <see cref="PerLane(NodeEmitter, MethodInfo, IReadOnlyList{LinqExpression})"/> on a vector of either width: an
+    /// eight-lane vector takes the four-lane form on each half.
+    /// </summary>
+    private static LinqExpression PerLane(NodeEmitter emitter, Vectors vector, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
     {
-        if (FunctionCatalog.LaneMethod(method) is { } vectorForm)
+        if (FunctionCatalog.LaneMethod(method) is { } vectorForm && arguments.Count == 1)
         {
-            return LinqExpression.Call(vectorForm, arguments);
+            if (vector.Width == Width)
+            {
+                return LinqExpression.Call(vectorForm, arguments);
+            }
+
+            var whole = emitter.Temporary();
+            return LinqExpression.Block(
+                LinqExpression.Assign(whole, arguments[0]),
+                LinqExpression.Call(vector.Join!, LinqExpression.Call(vectorForm, LinqExpression.Call(vector.Lower!, whole)), LinqExpression.Call(vectorForm, LinqExpression.Call(vector.Upper!, whole))));
         }
 
         var values = arguments.Select(_ => emitter.Temporary()).ToArray();
         var steps = arguments.Select((a, i) => (LinqExpression)LinqExpression.Assign(values[i], a)).ToList();
-        var lanes = Enumerable.Range(0, Width).Select(lane => (LinqExpression)LinqExpression.Call(
+        var lanes = Enumerable.Range(0, vector.Width).Select(lane => (LinqExpression)LinqExpression.Call(
             method,
-            values.Select(v => (LinqExpression)LinqExpression.Call(GetElement, v, LinqExpression.Constant(lane))))).ToArray();
-        steps.Add(LinqExpression.Call(Create, lanes));
+            values.Select(v => (LinqExpression)LinqExpression.Call(vector.GetElement, v, LinqExpression.Constant(lane))))).ToArray();
+        steps.Add(LinqExpression.Call(vector.Create, lanes));
         return LinqExpression.Block(steps);
+    }
+
+    /// <summary>The vector operations the generated loops call, for four-lane (<see cref="Vector256{T}"/>) or eight-lane (<see cref="Vector512{T}"/>) vectors of doubles.</summary>
+    private sealed class Vectors
+    {
+        // Method handles through delegates: the compiler picks each overload, and nothing scans the vector classes'
+        // hundreds of methods by reflection (tens of milliseconds at start).
+        public static readonly Vectors Narrow = new(typeof(Vector256<double>), MapKernel.Width)
+        {
+            Abs = Info<Func<Vector256<double>, Vector256<double>>>(Vector256.Abs),
+            GreaterThan = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.GreaterThan),
+            LessThan = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.LessThan),
+            LessThanOrEqual = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.LessThanOrEqual),
+            BitwiseAnd = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.BitwiseAnd),
+            BitwiseOr = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.BitwiseOr),
+            OnesComplement = Info<Func<Vector256<double>, Vector256<double>>>(Vector256.OnesComplement),
+            GetElement = Info<Func<Vector256<double>, int, double>>(Vector256.GetElement),
+            Create = Info<Func<double, double, double, double, Vector256<double>>>(Vector256.Create),
+            CopyTo = Info<Action<Vector256<double>, double[], int>>(Vector256.CopyTo),
+            Broadcast = Info<Func<double, Vector256<double>>>(Vector256.Create),
+        };
+
+        public static readonly Vectors Wide = new(typeof(Vector512<double>), 2 * MapKernel.Width)
+        {
+            Abs = Info<Func<Vector512<double>, Vector512<double>>>(Vector512.Abs),
+            GreaterThan = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.GreaterThan),
+            LessThan = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.LessThan),
+            LessThanOrEqual = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.LessThanOrEqual),
+            BitwiseAnd = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.BitwiseAnd),
+            BitwiseOr = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.BitwiseOr),
+            OnesComplement = Info<Func<Vector512<double>, Vector512<double>>>(Vector512.OnesComplement),
+            GetElement = Info<Func<Vector512<double>, int, double>>(Vector512.GetElement),
+            Create = Info<Func<double, double, double, double, double, double, double, double, Vector512<double>>>(Vector512.Create),
+            CopyTo = Info<Action<Vector512<double>, double[], int>>(Vector512.CopyTo),
+            Broadcast = Info<Func<double, Vector512<double>>>(Vector512.Create),
+            Join = Info<Func<Vector256<double>, Vector256<double>, Vector512<double>>>(Vector512.Create),
+            Lower = Info<Func<Vector512<double>, Vector256<double>>>(Vector512.GetLower),
+            Upper = Info<Func<Vector512<double>, Vector256<double>>>(Vector512.GetUpper),
+        };
+
+        private Vectors(Type type, int width)
+        {
+            Type = type;
+            Width = width;
+        }
+
+        public Type Type { get; }
+
+        public int Width { get; }
+
+        public required MethodInfo Abs { get; init; }
+
+        public required MethodInfo GreaterThan { get; init; }
+
+        public required MethodInfo LessThan { get; init; }
+
+        public required MethodInfo LessThanOrEqual { get; init; }
+
+        public required MethodInfo BitwiseAnd { get; init; }
+
+        public required MethodInfo BitwiseOr { get; init; }
+
+        public required MethodInfo OnesComplement { get; init; }
+
+        public required MethodInfo GetElement { get; init; }
+
+        public required MethodInfo Create { get; init; }
+
+        public required MethodInfo CopyTo { get; init; }
+
+        public required MethodInfo Broadcast { get; init; }
+
+        /// <summary>Two four-lane halves into one wide vector (wide only).</summary>
+        public MethodInfo? Join { get; init; }
+
+        public MethodInfo? Lower { get; init; }
+
+        public MethodInfo? Upper { get; init; }
+
+        /// <summary>The vector made of the four-lane vectors <paramref name="array"/>[first …]: one of them, or two joined.</summary>
+        public LinqExpression Load(ParameterExpression array, int first) =>
+            Join is null
+                ? LinqExpression.ArrayIndex(array, LinqExpression.Constant(first))
+                : LinqExpression.Call(Join, LinqExpression.ArrayIndex(array, LinqExpression.Constant(first)), LinqExpression.ArrayIndex(array, LinqExpression.Constant(first + 1)));
+
+        /// <summary>Stores <paramref name="value"/> back into <paramref name="array"/>[first …] (the inverse of <see cref="Load"/>).</summary>
+        public IEnumerable<LinqExpression> Store(ParameterExpression array, int first, ParameterExpression value)
+        {
+            if (Join is null)
+            {
+                yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first)), value);
+                yield break;
+            }
+
+            yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first)), LinqExpression.Call(Lower!, value));
+            yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first + 1)), LinqExpression.Call(Upper!, value));
+        }
+
+        private static MethodInfo Info<TDelegate>(TDelegate method)
+            where TDelegate : Delegate => method.Method;
     }
 }
