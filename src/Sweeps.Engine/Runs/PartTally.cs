@@ -63,7 +63,7 @@ internal sealed record PartTally(
         return new PartTally(regimes, periods, min, max, multistable, hysteresis, columns.Count);
     }
 
-    public string ToJson() => new JsonObject
+    public string ToJson() => CompactJson.Text(new JsonObject
     {
         ["rows"] = Rows,
         ["regimes"] = new JsonObject(Regimes.Select(r => KeyValuePair.Create(r.Key, (JsonNode?)r.Value))),
@@ -72,7 +72,7 @@ internal sealed record PartTally(
         ["lyapunov_1_max"] = LargestExponentMax.ToString("R", CultureInfo.InvariantCulture),
         ["multistable"] = Multistable,
         ["hysteresis"] = Hysteresis,
-    }.ToJsonString();
+    });
 
     public static PartTally? FromJson(string? text)
     {

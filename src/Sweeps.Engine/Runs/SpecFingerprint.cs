@@ -1,6 +1,5 @@
 using System.Globalization;
 using System.Security.Cryptography;
-using System.Text;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using Sweeps.Core.Analysis;
@@ -91,11 +90,8 @@ public static class SpecFingerprint
 
     public static string ModelHash(ModelSource model) => Hash(NormaliseModel(model));
 
-    private static string Hash(JsonNode node)
-    {
-        var bytes = Encoding.UTF8.GetBytes(node.ToJsonString(new JsonSerializerOptions { WriteIndented = false }));
-        return Convert.ToHexStringLower(SHA256.HashData(bytes));
-    }
+    /// <summary>SHA-256 of the node's compact JSON (<see cref="CompactJson"/>).</summary>
+    private static string Hash(JsonNode node) => Convert.ToHexStringLower(SHA256.HashData(CompactJson.Utf8(node).Span));
 
     private static JsonObject Values(IReadOnlyList<string> names, IReadOnlyList<double> values, Grid grid, AxisTarget target)
     {
