@@ -40,17 +40,20 @@ public static class ChunkQueue
     }
 
     /// <summary>
-    /// Compiles the submission path before there is anything to submit: creates a chunk job in a far-future
-    /// scheduled state and deletes it, and takes the submit lock once. The first job creation of a process costs
-    /// about a tenth of a second (expression analysis and serialisation); the embedded run does this on a spare
-    /// thread while it plans. A deleted job never runs.
+    /// Compiles the submission path before there is anything to submit: enqueues a chunk job on a queue no worker
+    /// serves (<see cref="WarmUpQueue"/>) and takes the submit lock once. The first job creation of a process costs
+    /// about a tenth of a second (serialisation, state handling); the embedded run does this on a spare thread while it
+    /// plans, on its in-memory storage, which ends with the process. The job goes the way chunk jobs go (enqueued,
+    /// not scheduled and deleted), so that the real submission finds that path ready, and it never runs.
     /// </summary>
     public static void WarmUp(JobStorage storage, IBackgroundJobClient client)
     {
-        var id = client.Create(JobFor(string.Empty, -1), new ScheduledState(TimeSpan.FromDays(365)));
-        client.Delete(id);
+        client.Create(JobFor(string.Empty, -1), new EnqueuedState(WarmUpQueue));
         Submit(storage, client, string.Empty, []);
     }
+
+    /// <summary>The queue of <see cref="WarmUp"/>'s job: Sweeps' workers serve the default queue only.</summary>
+    public const string WarmUpQueue = "warm_up";
 
     /// <summary>
     /// The chunk job, made directly rather than from a lambda: Hangfire would analyse the expression and compile its
