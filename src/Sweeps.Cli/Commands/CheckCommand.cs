@@ -18,7 +18,8 @@ internal static class CheckCommand
             var spec = SpecReader.Load(parse.GetRequiredValue(config));
             var model = Engine.Probing.ModelFactory.Build(spec);
             var estimate = CostEstimate.Measure(spec, model);
-            var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount, estimate.BlockSize);
+            // The chunks `run` would make on this machine.
+            var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, Environment.ProcessorCount, estimate.BlockSize, ChunkPlan.EmbeddedMinSeconds);
             DiskEstimate? disk = null;
             string? diskProblem = null;
             try

@@ -51,7 +51,7 @@ internal static class RunCommand
             {
                 var spec = SweepSetup.Load(path, overrides);
                 writer = Task.Run(() => WarmUpWriterAsync(spec));
-                var setup = SweepSetup.Prepare(spec, path, overrides, parse.GetValue(outDir), count);
+                var setup = SweepSetup.Prepare(spec, path, overrides, parse.GetValue(outDir), count, ChunkPlan.EmbeddedMinSeconds);
                 return await RunAsync(cli, setup, warm, count, token);
             }
             finally

@@ -13,14 +13,16 @@ namespace Sweeps.Cli.Commands;
 /// </summary>
 internal sealed record SweepSetup(SweepSpec Spec, Model Model, string ConfigText, IReadOnlyList<string> Overrides, string Directory, long ChunkSize, CostEstimate? Estimate)
 {
+    /// <summary>The setup of a sweep for a shared queue (chunks of at least <see cref="ChunkPlan.MinSeconds"/>).</summary>
     public static SweepSetup Prepare(string configPath, IReadOnlyList<string> overrides, string? outDir, int workers) =>
-        Prepare(Load(configPath, overrides), configPath, overrides, outDir, workers);
+        Prepare(Load(configPath, overrides), configPath, overrides, outDir, workers, ChunkPlan.MinSeconds);
 
     /// <summary>The config with its --set overrides applied (validated: bad input throws here).</summary>
     public static SweepSpec Load(string configPath, IReadOnlyList<string> overrides) =>
         PointOverrides.ApplyToSpec(SpecReader.Load(configPath), overrides);
 
-    public static SweepSetup Prepare(SweepSpec spec, string configPath, IReadOnlyList<string> overrides, string? outDir, int workers)
+    /// <summary>The setup of <paramref name="spec"/>; a new run's chunks get at least <paramref name="minSeconds"/> of compute each.</summary>
+    public static SweepSetup Prepare(SweepSpec spec, string configPath, IReadOnlyList<string> overrides, string? outDir, int workers, double minSeconds)
     {
         var directory = outDir ?? spec.OutputDirectory ?? Path.Combine("runs", Path.GetFileNameWithoutExtension(configPath));
         var text = File.ReadAllText(configPath);
@@ -31,7 +33,7 @@ internal sealed record SweepSetup(SweepSpec Spec, Model Model, string ConfigText
         }
 
         var estimate = CostEstimate.Measure(spec, model, quick: true);
-        var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers, estimate.BlockSize);
+        var plan = ChunkPlan.Of(spec, estimate.SecondsPerPoint, workers, estimate.BlockSize, minSeconds);
         return new SweepSetup(spec, model, text, overrides, directory, plan.ChunkSize, estimate);
     }
 

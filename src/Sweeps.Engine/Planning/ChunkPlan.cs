@@ -3,9 +3,11 @@ namespace Sweeps.Engine.Planning;
 /// <summary>
 /// How a grid is cut into chunks (one queue job and one part file each). A chunk aims at about
 /// <see cref="TargetSeconds"/> of compute, and there are at least <see cref="ChunksPerWorker"/> chunks
-/// per worker so that uneven points balance out; but a chunk never drops below
-/// <see cref="MinSeconds"/> of compute, which keeps the queue's per-job cost (~0.1 ms embedded, ~5 ms on
-/// PostgreSQL) under 2% of the work. A chunk also holds at most <see cref="MaxChunk"/> points: its columns
+/// per worker so that uneven points balance out; but a chunk never drops below a minimum of compute that keeps the
+/// cost of a job — the queue's bookkeeping and the part file, about 3 ms on the embedded queue (measured: a 2000-point
+/// flow sweep in 32 chunks took 70 ms longer than in 8) and more on PostgreSQL — a few per cent of the work:
+/// <see cref="EmbeddedMinSeconds"/> for <c>run</c>, whose short sweeps need the smaller chunks to keep both workers
+/// busy to the end, <see cref="MinSeconds"/> for a shared queue. A chunk also holds at most <see cref="MaxChunk"/> points: its columns
 /// and the Parquet writer's buffers live in memory until the part is written, and at an eighth of a million
 /// rows two workers stay well under a gigabyte (measured: a 10^8-point map sweep, see docs/performance.md).
 /// Where points are analysed in blocks (lanes), a chunk holds whole blocks below the cap, so that no block but the
@@ -14,18 +16,22 @@ namespace Sweeps.Engine.Planning;
 public sealed record ChunkPlan(long Points, long ChunkSize)
 {
     public const double TargetSeconds = 2.0;
+    /// <summary>The least compute a chunk gets on a shared (PostgreSQL) queue.</summary>
     public const double MinSeconds = 0.25;
+
+    /// <summary>The least compute a chunk gets on the embedded queue of <c>run</c>.</summary>
+    public const double EmbeddedMinSeconds = 0.1;
     public const int ChunksPerWorker = 4;
     public const long MaxChunk = 125_000;
 
     public long ChunkCount => (Points + ChunkSize - 1) / ChunkSize;
 
-    public static ChunkPlan For(long points, double secondsPerPoint, int workers, int block = 1)
+    public static ChunkPlan For(long points, double secondsPerPoint, int workers, int block = 1, double minSeconds = MinSeconds)
     {
         var perPoint = Math.Max(secondsPerPoint, 1e-9);
         var balanced = (points + (ChunksPerWorker * workers) - 1) / (ChunksPerWorker * workers);
         var size = Math.Min((long)(TargetSeconds / perPoint), balanced);
-        size = Math.Max(size, (long)Math.Ceiling(MinSeconds / perPoint));
+        size = Math.Max(size, (long)Math.Ceiling(minSeconds / perPoint));
         size = Math.Clamp(size, 1, MaxChunk);
         if (block > 1)
         {
@@ -40,13 +46,13 @@ public sealed record ChunkPlan(long Points, long ChunkSize)
 
     /// <summary>
     /// The plan for a spec: its [output] chunk_size if given, else one planned from the cost per point (in whole blocks of
-    /// <paramref name="block"/> points, the block analyzer's); for a
+    /// <paramref name="block"/> points, the block analyzer's, and of at least <paramref name="minSeconds"/>); for a
     /// continuation sweep rounded up to whole lines along the followed axis (a line is computed in order).
     /// </summary>
-    public static ChunkPlan Of(Specs.SweepSpec spec, double secondsPerPoint, int workers, int block = 1)
+    public static ChunkPlan Of(Specs.SweepSpec spec, double secondsPerPoint, int workers, int block = 1, double minSeconds = MinSeconds)
     {
         var points = spec.Grid.PointCount;
-        var plan = spec.ChunkSize is { } size ? Fixed(points, size) : For(points, secondsPerPoint, workers, block);
+        var plan = spec.ChunkSize is { } size ? Fixed(points, size) : For(points, secondsPerPoint, workers, block, minSeconds);
         var line = spec.Grid.LineLength;
         return line == 1 ? plan : plan with { ChunkSize = Math.Min((plan.ChunkSize + line - 1) / line * line, points) };
     }

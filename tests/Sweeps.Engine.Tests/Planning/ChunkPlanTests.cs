@@ -38,4 +38,19 @@ public sealed class ChunkPlanTests
         Assert.Equal(8, plan.ChunkCount);
         Assert.Equal(50, ChunkPlan.For(400, 7e-3, 2).ChunkSize);
     }
+
+    [Fact]
+    public void EmbeddedQueue_CutsAShortFlowSweepIntoFourChunksPerWorker()
+    {
+        // 2000 flow points at 0.414 ms (check's estimate of the Lorenz-type benchmark) on two workers, in blocks of four:
+        // the embedded minimum of a tenth of a second leaves the balanced 250 points (rounded to 252), where a shared
+        // queue's quarter second makes chunks of 604 — four chunks, the last a third as long, so one worker idles at the end.
+        var embedded = ChunkPlan.For(2000, 4.14e-4, 2, 4, ChunkPlan.EmbeddedMinSeconds);
+        Assert.Equal(252, embedded.ChunkSize);
+        Assert.Equal(8, embedded.ChunkCount);
+
+        var shared = ChunkPlan.For(2000, 4.14e-4, 2, 4);
+        Assert.Equal(604, shared.ChunkSize);
+        Assert.Equal(4, shared.ChunkCount);
+    }
 }
