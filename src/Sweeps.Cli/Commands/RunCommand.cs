@@ -99,9 +99,10 @@ internal static class RunCommand
         }
 
         var clock = Stopwatch.StartNew();
+        var context = new RunContext(run, setup.Model);
         if (missing.Count > 0)
         {
-            var stopped = await ComputeAsync(cli, await warm, new RunContext(run, setup.Model), missing, pointsToRun, token);
+            var stopped = await ComputeAsync(cli, await warm, context, missing, pointsToRun, token);
             if (stopped is { } code)
             {
                 return code;
@@ -111,7 +112,7 @@ internal static class RunCommand
         // The computing time, queue start and stop included; reading the summary back is not computing.
         var computing = clock.Elapsed.TotalSeconds;
         run.MarkFinished(cli.Clock);
-        var summary = await RunSummary.ReadAsync(run, CancellationToken.None);
+        var summary = await RunSummary.ReadAsync(context, CancellationToken.None);
         var rate = computing > 0 ? pointsToRun / computing : 0;
         SummaryText.Line(output, "finished", $"{pointsToRun:N0} points computed in {Numbers.Format(computing, "g3")} s ({rate:N0} points/s)");
         SummaryText.Line(output, "regimes", SummaryText.Regimes(summary));

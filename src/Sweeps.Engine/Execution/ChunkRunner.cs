@@ -37,7 +37,9 @@ public static class ChunkRunner
             await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
         }
 
-        await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
+        var tally = PartTally.Of(columns);
+        await PartWriter.WriteAsync(path, context.Schema, columns, tally, context.Metadata, token);
+        context.Wrote(chunk, tally);
         var count = columns.Count;
         context.ReturnColumns(columns);
         return count;

@@ -73,6 +73,16 @@ public sealed class RunContext
         return ChunkColumns.For(Spec, count);
     }
 
+    private readonly ConcurrentDictionary<long, PartTally> written = new();
+
+    /// <summary>
+    /// The counts of the parts this process wrote, by chunk (each part's footer holds the same): the run's summary takes
+    /// them from here instead of opening every part again.
+    /// </summary>
+    internal IReadOnlyDictionary<long, PartTally> WrittenTallies => written;
+
+    internal void Wrote(long chunk, PartTally tally) => written[chunk] = tally;
+
     /// <summary>Gives back columns whose part is written (their contents are no longer needed).</summary>
     internal void ReturnColumns(ChunkColumns columns)
     {

@@ -70,11 +70,15 @@ public static class PartWriter
     /// Writes a point part (with Sweeps' own column writer, <see cref="Columnar.ColumnarFile"/>: this is the hot path);
     /// its footer also carries the part's counts (<see cref="PartTally"/>).
     /// </summary>
-    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
+        WriteAsync(path, schema, columns, PartTally.Of(columns), metadata, token);
+
+    /// <summary>As above, with the part's counts already made (<see cref="PartTally.Of"/> of the same columns).</summary>
+    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, PartTally tally, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
     {
         token.ThrowIfCancellationRequested();
         var withTally = metadata.ToDictionary();
-        withTally[PartTally.Key] = PartTally.Of(columns).ToJson();
+        withTally[PartTally.Key] = tally.ToJson();
         return CommitAsync(
             path,
             stream =>

@@ -21,7 +21,16 @@ public sealed record RunSummary(
     long MultistablePoints = 0,
     long? HysteresisPoints = null)
 {
-    public static async Task<RunSummary> ReadAsync(RunDirectory run, CancellationToken token = default)
+    public static Task<RunSummary> ReadAsync(RunDirectory run, CancellationToken token = default) => ReadAsync(run, null, token);
+
+    /// <summary>
+    /// The summary of the context's run, taking the counts of the parts this process wrote from the context and reading
+    /// only the other parts' footers (a run resumed, or parts another process wrote).
+    /// </summary>
+    public static Task<RunSummary> ReadAsync(Execution.RunContext context, CancellationToken token = default) =>
+        ReadAsync(context.Run, context.WrittenTallies, token);
+
+    private static async Task<RunSummary> ReadAsync(RunDirectory run, IReadOnlyDictionary<long, PartTally>? known, CancellationToken token)
     {
         var regimes = new SortedDictionary<string, long>(StringComparer.Ordinal);
         var periods = new SortedDictionary<int, long>();
@@ -39,10 +48,7 @@ public sealed record RunSummary(
                 continue;
             }
 
-            // Every part's footer carries its counts (PartTally): no rows to read.
-            await using var reader = await ParquetReader.CreateAsync(path, null, token);
-            var tally = PartTally.FromJson(reader.CustomMetadata.GetValueOrDefault(PartTally.Key))
-                ?? throw Config.ConfigException.Single(path, "a part file without its counts (not written by this version of Sweeps)");
+            var tally = known?.GetValueOrDefault(chunk) ?? await TallyAsync(path, token);
             foreach (var (regime, count) in tally.Regimes)
             {
                 regimes[regime] = regimes.GetValueOrDefault(regime) + count;
@@ -72,5 +78,13 @@ public sealed record RunSummary(
             missing.Count == 0 ? RunManifest.Complete : "incomplete",
             multistable,
             hysteretic);
+    }
+
+    /// <summary>A part's counts from its footer (<see cref="PartTally"/>): no rows to read.</summary>
+    private static async Task<PartTally> TallyAsync(string path, CancellationToken token)
+    {
+        await using var reader = await ParquetReader.CreateAsync(path, null, token);
+        return PartTally.FromJson(reader.CustomMetadata.GetValueOrDefault(PartTally.Key))
+            ?? throw Config.ConfigException.Single(path, "a part file without its counts (not written by this version of Sweeps)");
     }
 }
