@@ -22,8 +22,9 @@ internal delegate void RecordingSteps(Vector256<double>[] x, Vector256<double>[]
 /// the whole step loop for 32 orbits side by side — eight independent Vector256 chains, or four Vector512 chains where
 /// the processor has 512-bit vectors (twice the lanes per instruction) — so the vector units and the instruction-level
 /// parallelism of the core are used; one delegate call advances 32 points by many steps. The caller's state is eight
-/// Vector256 per quantity either way (a wide loop joins them in pairs on entry and splits them on exit). The code comes from the same <see cref="NodeEmitter"/> as the scalar delegates, on the same
-/// expression trees, so every operation is the scalar one in the same order; IEEE arithmetic is lane-wise, and functions without an exact vector
+/// Vector256 per quantity either way (a wide loop joins them in pairs on entry and splits them on exit). The code
+/// comes from the same <see cref="NodeEmitter"/> as the scalar delegates, on the same expression trees, so every
+/// operation is the scalar one in the same order; IEEE arithmetic is lane-wise, and functions without an exact vector
 /// form are called lane by lane, so each lane's orbit equals the scalar orbit bit for bit. A lane whose orbit
 /// escapes, turns non-finite or whose running product leaves the safe range is flagged; its point is then
 /// analysed by the scalar path, which handles those cases (escape step, superstable −∞, early logarithms).
