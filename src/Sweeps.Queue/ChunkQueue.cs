@@ -53,7 +53,7 @@ public static class ChunkQueue
     }
 
     /// <summary>The queue of <see cref="WarmUp"/>'s job: Sweeps' workers serve the default queue only.</summary>
-    public const string WarmUpQueue = "warm_up";
+    private const string WarmUpQueue = "warm_up";
 
     /// <summary>
     /// The chunk job, made directly rather than from a lambda: Hangfire would analyse the expression and compile its

@@ -128,7 +128,7 @@ internal static class DormandPrinceKernel
         // through to the result, where the loop returns it at once — the same NaN either way. Lanes take Math.Max's
         // lane-wise form (LaneMath.Maximum), so a NaN anywhere in a lane's sums makes that lane's norm NaN too.
         var (atol, rtol) = (LinqExpression.Parameter(typeof(double), "atol"), LinqExpression.Parameter(typeof(double), "rtol"));
-        var abs = lanes ? AbsoluteValue : typeof(Math).GetMethod(nameof(Math.Abs), [typeof(double)])!;
+        var abs = lanes ? VectorMethods.Narrow.Abs : typeof(Math).GetMethod(nameof(Math.Abs), [typeof(double)])!;
         var max = lanes ? typeof(LaneMath).GetMethod(nameof(LaneMath.Maximum))! : typeof(Math).GetMethod(nameof(Math.Max), [typeof(double), typeof(double)])!;
         var (absolute, relative) = (code.Local(), code.Local());
         body.Add(LinqExpression.Assign(absolute, code.Broadcast(atol)));
@@ -148,10 +148,6 @@ internal static class DormandPrinceKernel
         var parameters = new[] { arrays["y"], arrays["p"], t, h, arrays["k1"], arrays["k2"], arrays["k3"], arrays["k4"], arrays["k5"], arrays["k6"], arrays["k7"], arrays["next"], atol, rtol };
         return LinqExpression.Lambda<TDelegate>(LinqExpression.Block(code.Variables, body), parameters).Compile();
     }
-
-    /// <summary><see cref="Vector256.Abs{T}"/> for doubles.</summary>
-    private static System.Reflection.MethodInfo AbsoluteValue =>
-        typeof(Vector256).GetMethods().Single(m => m.Name == nameof(Vector256.Abs) && m.IsGenericMethodDefinition).MakeGenericMethod(typeof(double));
 
     /// <summary>((a₁·k₁ + a₂·k₂) + a₃·k₃) + …, left to right, skipping zero coefficients.</summary>
     private static LinqExpression Sum(VariationalCode code, double[] a, List<ParameterExpression[]> k, int i)

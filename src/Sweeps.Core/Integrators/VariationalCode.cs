@@ -74,7 +74,7 @@ internal sealed class VariationalCode
 
     /// <summary>A scalar double expression as a value (broadcast to every lane).</summary>
     public LinqExpression Broadcast(LinqExpression scalar) =>
-        Lanes ? LinqExpression.Call(typeof(Vector256).GetMethod(nameof(Vector256.Create), [typeof(double)])!, scalar) : scalar;
+        Lanes ? LinqExpression.Call(VectorMethods.Narrow.Broadcast, scalar) : scalar;
 
     /// <summary>Block variables the emitted code needs (declare them in the enclosing block).</summary>
     public List<ParameterExpression> Variables { get; } = [];

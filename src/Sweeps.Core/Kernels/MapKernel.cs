@@ -58,8 +58,8 @@ internal sealed class MapKernel
 
         var vector = width switch
         {
-            Width => Vectors.Narrow,
-            2 * Width => Vectors.Wide,
+            Width => VectorMethods.Narrow,
+            2 * Width => VectorMethods.Wide,
             _ => throw new ArgumentOutOfRangeException(nameof(width), width, "the block kernel's vectors hold 4 or 8 doubles"),
         };
 
@@ -88,7 +88,7 @@ internal sealed class MapKernel
     /// <summary>product ← product·|f'(x)|, then x ← f(x); flags lanes whose product leaves the safe range or whose x escapes.</summary>
     public BlockSteps Measure => measure.Value;
 
-    private static TDelegate Build<TDelegate>(Model model, Vectors vector, double escape, double safeLow, double safeHigh, bool derivative, bool record)
+    private static TDelegate Build<TDelegate>(Model model, VectorMethods vector, double escape, double safeLow, double safeHigh, bool derivative, bool record)
     {
         var window = LinqExpression.Parameter(typeof(double[]), "window");
         var slot = LinqExpression.Parameter(typeof(int), "slot");
@@ -196,7 +196,7 @@ internal sealed class MapKernel
             : LinqExpression.Lambda<TDelegate>(block, x, p, product, flagged, steps).Compile();
     }
 
-    private static ParameterExpression Local(List<ParameterExpression> variables, List<LinqExpression> body, Vectors vector, LinqExpression value)
+    private static ParameterExpression Local(List<ParameterExpression> variables, List<LinqExpression> body, VectorMethods vector, LinqExpression value)
     {
         var variable = LinqExpression.Variable(vector.Type);
         variables.Add(variable);
@@ -205,7 +205,7 @@ internal sealed class MapKernel
     }
 
     /// <summary>The shared emitter over a vector's lanes: the scalar operations, lane-wise; catalog functions lane by lane.</summary>
-    private static NodeEmitter Emitter(Vectors vector, ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant)
+    private static NodeEmitter Emitter(VectorMethods vector, ParameterExpression x, ParameterExpression[] p, Func<double, ParameterExpression> constant)
     {
         NodeEmitter? emitter = null;
         emitter = new NodeEmitter(
@@ -226,13 +226,13 @@ internal sealed class MapKernel
     /// (<see cref="FunctionCatalog.LaneMethod"/>), else the scalar method on each lane, reassembled.
     /// </summary>
     internal static LinqExpression PerLane(NodeEmitter emitter, MethodInfo method, IReadOnlyList<LinqExpression> arguments) =>
-        PerLane(emitter, Vectors.Narrow, method, arguments);
+        PerLane(emitter, VectorMethods.Narrow, method, arguments);
 
     /// <summary>
     /// <see cref="PerLane(NodeEmitter, MethodInfo, IReadOnlyList{LinqExpression})"/> on a vector of either width: an
     /// eight-lane vector takes the four-lane form on each half.
     /// </summary>
-    private static LinqExpression PerLane(NodeEmitter emitter, Vectors vector, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
+    private static LinqExpression PerLane(NodeEmitter emitter, VectorMethods vector, MethodInfo method, IReadOnlyList<LinqExpression> arguments)
     {
         if (FunctionCatalog.LaneMethod(method) is { } vectorForm && arguments.Count == 1)
         {
@@ -254,105 +254,5 @@ internal sealed class MapKernel
             values.Select(v => (LinqExpression)LinqExpression.Call(vector.GetElement, v, LinqExpression.Constant(lane))))).ToArray();
         steps.Add(LinqExpression.Call(vector.Create, lanes));
         return LinqExpression.Block(steps);
-    }
-
-    /// <summary>The vector operations the generated loops call, for four-lane (<see cref="Vector256{T}"/>) or eight-lane (<see cref="Vector512{T}"/>) vectors of doubles.</summary>
-    private sealed class Vectors
-    {
-        // Method handles through delegates: the compiler picks each overload, and nothing scans the vector classes'
-        // hundreds of methods by reflection (tens of milliseconds at start).
-        public static readonly Vectors Narrow = new(typeof(Vector256<double>), MapKernel.Width)
-        {
-            Abs = Info<Func<Vector256<double>, Vector256<double>>>(Vector256.Abs),
-            GreaterThan = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.GreaterThan),
-            LessThan = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.LessThan),
-            LessThanOrEqual = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.LessThanOrEqual),
-            BitwiseAnd = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.BitwiseAnd),
-            BitwiseOr = Info<Func<Vector256<double>, Vector256<double>, Vector256<double>>>(Vector256.BitwiseOr),
-            OnesComplement = Info<Func<Vector256<double>, Vector256<double>>>(Vector256.OnesComplement),
-            GetElement = Info<Func<Vector256<double>, int, double>>(Vector256.GetElement),
-            Create = Info<Func<double, double, double, double, Vector256<double>>>(Vector256.Create),
-            CopyTo = Info<Action<Vector256<double>, double[], int>>(Vector256.CopyTo),
-            Broadcast = Info<Func<double, Vector256<double>>>(Vector256.Create),
-        };
-
-        public static readonly Vectors Wide = new(typeof(Vector512<double>), 2 * MapKernel.Width)
-        {
-            Abs = Info<Func<Vector512<double>, Vector512<double>>>(Vector512.Abs),
-            GreaterThan = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.GreaterThan),
-            LessThan = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.LessThan),
-            LessThanOrEqual = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.LessThanOrEqual),
-            BitwiseAnd = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.BitwiseAnd),
-            BitwiseOr = Info<Func<Vector512<double>, Vector512<double>, Vector512<double>>>(Vector512.BitwiseOr),
-            OnesComplement = Info<Func<Vector512<double>, Vector512<double>>>(Vector512.OnesComplement),
-            GetElement = Info<Func<Vector512<double>, int, double>>(Vector512.GetElement),
-            Create = Info<Func<double, double, double, double, double, double, double, double, Vector512<double>>>(Vector512.Create),
-            CopyTo = Info<Action<Vector512<double>, double[], int>>(Vector512.CopyTo),
-            Broadcast = Info<Func<double, Vector512<double>>>(Vector512.Create),
-            Join = Info<Func<Vector256<double>, Vector256<double>, Vector512<double>>>(Vector512.Create),
-            Lower = Info<Func<Vector512<double>, Vector256<double>>>(Vector512.GetLower),
-            Upper = Info<Func<Vector512<double>, Vector256<double>>>(Vector512.GetUpper),
-        };
-
-        private Vectors(Type type, int width)
-        {
-            Type = type;
-            Width = width;
-        }
-
-        public Type Type { get; }
-
-        public int Width { get; }
-
-        public required MethodInfo Abs { get; init; }
-
-        public required MethodInfo GreaterThan { get; init; }
-
-        public required MethodInfo LessThan { get; init; }
-
-        public required MethodInfo LessThanOrEqual { get; init; }
-
-        public required MethodInfo BitwiseAnd { get; init; }
-
-        public required MethodInfo BitwiseOr { get; init; }
-
-        public required MethodInfo OnesComplement { get; init; }
-
-        public required MethodInfo GetElement { get; init; }
-
-        public required MethodInfo Create { get; init; }
-
-        public required MethodInfo CopyTo { get; init; }
-
-        public required MethodInfo Broadcast { get; init; }
-
-        /// <summary>Two four-lane halves into one wide vector (wide only).</summary>
-        public MethodInfo? Join { get; init; }
-
-        public MethodInfo? Lower { get; init; }
-
-        public MethodInfo? Upper { get; init; }
-
-        /// <summary>The vector made of the four-lane vectors <paramref name="array"/>[first …]: one of them, or two joined.</summary>
-        public LinqExpression Load(ParameterExpression array, int first) =>
-            Join is null
-                ? LinqExpression.ArrayIndex(array, LinqExpression.Constant(first))
-                : LinqExpression.Call(Join, LinqExpression.ArrayIndex(array, LinqExpression.Constant(first)), LinqExpression.ArrayIndex(array, LinqExpression.Constant(first + 1)));
-
-        /// <summary>Stores <paramref name="value"/> back into <paramref name="array"/>[first …] (the inverse of <see cref="Load"/>).</summary>
-        public IEnumerable<LinqExpression> Store(ParameterExpression array, int first, ParameterExpression value)
-        {
-            if (Join is null)
-            {
-                yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first)), value);
-                yield break;
-            }
-
-            yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first)), LinqExpression.Call(Lower!, value));
-            yield return LinqExpression.Assign(LinqExpression.ArrayAccess(array, LinqExpression.Constant(first + 1)), LinqExpression.Call(Upper!, value));
-        }
-
-        private static MethodInfo Info<TDelegate>(TDelegate method)
-            where TDelegate : Delegate => method.Method;
     }
 }
