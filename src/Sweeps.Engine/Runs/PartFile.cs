@@ -5,10 +5,11 @@ namespace Sweeps.Engine.Runs;
 /// <summary>A chunk's columns as a point part, in the order and with the types of <see cref="PartSchema"/>.</summary>
 internal static class PartFile
 {
-    public static void Write(Stream stream, PartSchema schema, ChunkColumns columns, IEnumerable<KeyValuePair<string, string>> metadata)
+    /// <param name="pageValues">Values in a page of a numeric or list column at most (<see cref="ColumnarFile.PageValues"/>).</param>
+    public static void Write(Stream stream, PartSchema schema, ChunkColumns columns, IEnumerable<KeyValuePair<string, string>> metadata, int pageValues = ColumnarFile.PageValues)
     {
         var count = columns.Count;
-        using var file = new ColumnarFile(stream);
+        using var file = new ColumnarFile(stream, pageValues);
         file.Int64Delta(schema.Point.Name, columns.Point.AsSpan(0, count));
         for (var a = 0; a < schema.Axes.Count; a++)
         {

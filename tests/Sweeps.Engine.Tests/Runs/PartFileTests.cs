@@ -1,3 +1,4 @@
+using System.Buffers;
 using CsCheck;
 using ParquetSharp;
 using Sweeps.Core.Analysis;
@@ -76,10 +77,76 @@ public sealed class PartFileTests
         Assert.Equal([0, 20_000, 4], back.Backward!.SampleCounts.Take(back.Count));
     }
 
-    private static void AssertRoundTrip((Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)[] rows, long[] points)
+    [Fact]
+    public void Write_ReadsBackBitForBit_WhenPagesSplitTheColumns()
+    {
+        // Pages of a few values: numeric columns and the samples' list cut into many pages, rows longer than a page alone in theirs.
+        Gen.Select(Rows.Array[1, 60], Gen.Long.Array[1, 700], Gen.Int[1, 12]).Sample((rows, points, page) => AssertRoundTrip(rows, points, page), iter: 60);
+    }
+
+    [Fact]
+    public async Task Write_ReadsBack_ThroughTheReaderSweepsUses_WhenPagesSplitTheColumns()
+    {
+        var (schema, columns) = Build(Rows.Array[40].Single(), Gen.Long[0, long.MaxValue].Array[500].Single());
+        using var file = new Temporary(Write(schema, columns, pageValues: 5));
+        var back = await PartReader.ReadAsync(file.Path, schema, CancellationToken.None);
+        Assert.Equal(columns.Point.Take(columns.Count), back.Point.Take(back.Count));
+        Assert.Equal(Bits(columns.Lyapunov[1].Take(columns.Count).Cast<object?>()), Bits(back.Lyapunov[1].Take(back.Count).Cast<object?>()));
+        Assert.Equal(columns.Period.Take(columns.Count), back.Period.Take(back.Count));
+        Assert.Equal(columns.SampleValues.WrittenSpan.ToArray(), back.SampleValues.WrittenSpan.ToArray());
+        Assert.Equal(columns.SampleCounts.Take(columns.Count), back.SampleCounts.Take(back.Count));
+        Assert.Equal(columns.Backward!.SampleCounts.Take(columns.Count), back.Backward!.SampleCounts.Take(back.Count));
+    }
+
+    [Fact]
+    public void Write_CutsColumnsIntoPages_OfAtMostTheValuesGiven()
+    {
+        // One value a page: every row of the forward branch's 14 numeric columns (and more) a page of its own, each
+        // with a header of at least a dozen bytes (Thrift: type, two sizes, the data page's count and three encodings).
+        var (schema, columns) = Build(Enumerable.Repeat((Regime.Periodic, 1, 1, 0.5, -1, false), 200).ToArray(), Enumerable.Range(0, 200).Select(i => (long)i).ToArray());
+        var whole = Write(schema, columns);
+        var paged = Write(schema, columns, pageValues: 1);
+        Assert.True(paged.Length - whole.Length >= 12 * 199 * 14, $"{paged.Length} bytes against {whole.Length}");
+        Assert.Equal(Bits(ReadIndependently(whole)["samples"]), Bits(ReadIndependently(paged)["samples"]));
+    }
+
+    [Fact]
+    public void Write_CompressesTheSamples_OnlyWhenTheirValuesShrink()
+    {
+        // The codec of the samples' list follows its values, not the levels in front of them (which always shrink).
+        var random = new Random(11);
+        var rows = Enumerable.Repeat((Regime.Chaotic, 1, 4, 0.0, -1, false), 20_000).ToArray();
+        var (schema, columns) = Build(rows, Enumerable.Range(0, 20_000).Select(i => (long)i).ToArray());
+        var noisy = columns.SampleValues.WrittenSpan.ToArray();
+        for (var i = 0; i < noisy.Length; i++)
+        {
+            noisy[i] = random.NextDouble();
+        }
+
+        columns.SampleValues.ResetWrittenCount();
+        columns.SampleValues.Write(noisy);
+        Assert.Equal(Compression.Uncompressed, Codec(Write(schema, columns), "samples.list.element"));
+
+        var (periodicSchema, periodic) = Build(rows, Enumerable.Range(0, 20_000).Select(i => (long)i).ToArray());
+        Assert.Equal(Compression.Snappy, Codec(Write(periodicSchema, periodic), "samples.list.element"));
+    }
+
+    private static Compression Codec(byte[] bytes, string column)
+    {
+        using var file = new Temporary(bytes);
+        using var reader = new ParquetFileReader(file.Path);
+        using var group = reader.RowGroup(0);
+        using var chunk = group.MetaData.GetColumnChunkMetaData(ColumnIndex(reader, column));
+        return chunk.Compression;
+    }
+
+    private static void AssertRoundTrip((Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)[] rows, long[] points) =>
+        AssertRoundTrip(rows, points, Sweeps.Engine.Runs.Columnar.ColumnarFile.PageValues);
+
+    private static void AssertRoundTrip((Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)[] rows, long[] points, int pageValues)
     {
         var (schema, columns) = Build(rows, points);
-        var table = ReadIndependently(Write(schema, columns));
+        var table = ReadIndependently(Write(schema, columns, pageValues));
         var reasons = rows.SelectMany(r => Enumerable.Repeat(r.Reason >= 0 ? Reasons[r.Reason] : null, r.Run)).Take(points.Length);
         Assert.Equal(reasons, table["reason"].Cast<string?>());
         AssertSame(columns, table, backward: false);
@@ -280,10 +347,10 @@ public sealed class PartFileTests
         return (new PartSchema(spec), columns);
     }
 
-    private static byte[] Write(PartSchema schema, ChunkColumns columns)
+    private static byte[] Write(PartSchema schema, ChunkColumns columns, int pageValues = Sweeps.Engine.Runs.Columnar.ColumnarFile.PageValues)
     {
         using var stream = new MemoryStream();
-        PartFile.Write(stream, schema, columns, new Dictionary<string, string> { ["sweeps.test"] = "ü" });
+        PartFile.Write(stream, schema, columns, new Dictionary<string, string> { ["sweeps.test"] = "ü" }, pageValues);
         return stream.ToArray();
     }
 

@@ -6,9 +6,11 @@ using System.Text;
 namespace Sweeps.Engine.Runs.Columnar;
 
 /// <summary>
-/// A Parquet file of one row group, written column by column in schema order: each column one version-1 data page
+/// A Parquet file of one row group, written column by column in schema order: each column in version-1 data pages
 /// (after a dictionary page for dictionary-encoded strings), Snappy-compressed where that pays, then the footer with the schema,
-/// statistics and key–value metadata. Only what part files use: required int32/int64/double/boolean columns, optional
+/// statistics and key–value metadata. Numeric columns and the samples' list are cut into pages of at most
+/// <see cref="PageValues"/> values (whole rows), so that what a page is copied, compressed and written through stays
+/// small and warm in the processor's cache. Only what part files use: required int32/int64/double/boolean columns, optional
 /// strings (plain or dictionary-encoded) and optional lists of required doubles.
 /// </summary>
 /// <remarks>
@@ -22,9 +24,17 @@ namespace Sweeps.Engine.Runs.Columnar;
 /// </remarks>
 internal sealed partial class ColumnarFile : IDisposable
 {
+    /// <summary>
+    /// Values in a page of a numeric or list column (256 KB of doubles): a column chunk written as one page needed a page
+    /// body and a compressed copy as large as the column — 8 MB each for the samples of a 125 000-row map part — and
+    /// memory touched for the first time costs more than compressing it (docs/performance.md, tenth session).
+    /// </summary>
+    public const int PageValues = 1 << 15;
+
     private static ReadOnlySpan<byte> Magic => "PAR1"u8;
 
     private readonly Stream stream;
+    private readonly int pageValues;
     private readonly List<SchemaNode> schema = [];
     private readonly List<ColumnChunk> chunks = [];
     private readonly PooledBuffer body = new(1 << 16);
@@ -32,8 +42,12 @@ internal sealed partial class ColumnarFile : IDisposable
     private int topLevel;
     private long position;
 
-    public ColumnarFile(Stream stream)
+    /// <param name="stream">Where the file goes.</param>
+    /// <param name="pageValues">Values in a page of a numeric or list column at most (a row longer than that is a page of its own).</param>
+    public ColumnarFile(Stream stream, int pageValues = PageValues)
     {
+        ArgumentOutOfRangeException.ThrowIfLessThan(pageValues, 1);
+        this.pageValues = pageValues;
         if (!BitConverter.IsLittleEndian)
         {
             throw new PlatformNotSupportedException("Part files are written from little-endian memory.");
@@ -54,13 +68,31 @@ internal sealed partial class ColumnarFile : IDisposable
     public void Int32(string name, ReadOnlySpan<int> values)
     {
         Leaf(name, Physical.Int32, Repetition.Required, Annotation.Int32);
-        Chunk([name], Physical.Int32, ValueEncoding.Plain, values.Length, MemoryMarshal.AsBytes(values), ColumnStatistics.Of(values), levels: false);
+        PlainPages([name], Physical.Int32, MemoryMarshal.AsBytes(values), sizeof(int), ColumnStatistics.Of(values));
     }
 
     public void Double(string name, ReadOnlySpan<double> values)
     {
         Leaf(name, Physical.Double, Repetition.Required, Annotation.None);
-        Chunk([name], Physical.Double, ValueEncoding.Plain, values.Length, MemoryMarshal.AsBytes(values), ColumnStatistics.Of(values, 0), levels: false);
+        PlainPages([name], Physical.Double, MemoryMarshal.AsBytes(values), sizeof(double), ColumnStatistics.Of(values, 0));
+    }
+
+    /// <summary>A required fixed-width column, plain: its pages are slices of the values themselves, nothing is copied.</summary>
+    private void PlainPages(string[] path, Physical type, ReadOnlySpan<byte> bytes, int width, ColumnStatistics statistics)
+    {
+        var values = bytes.Length / width;
+        BeginChunk(Compressible(bytes) ? Codec.Snappy : Codec.Uncompressed);
+        var dataPage = position;
+        var first = 0;
+        do
+        {
+            var count = Math.Min(pageValues, values - first);
+            Page(PageKind.Data, ValueEncoding.Plain, count, bytes.Slice(first * width, count * width));
+            first += count;
+        }
+        while (first < values);
+
+        EndChunk(path, type, [ValueEncoding.Plain], values, dataPage, null, statistics);
     }
 
     public void Boolean(string name, ReadOnlySpan<bool> values)
@@ -195,17 +227,39 @@ internal sealed partial class ColumnarFile : IDisposable
         schema.Add(new SchemaNode("list", null, Repetition.Repeated, 1, Annotation.None));
         schema.Add(new SchemaNode("element", Physical.Double, Repetition.Required, 0, Annotation.None));
         var levels = ListLevels.Count(counts);
-        var bytes = MemoryMarshal.AsBytes(values);
-        body.Reset((2 * LevelBound(levels)) + bytes.Length);
-        var at = BeginLength();
-        ListLevels.Encode(counts, repetition: true, body);
-        EndLength(at);
-        at = BeginLength();
-        ListLevels.Encode(counts, repetition: false, body);
-        EndLength(at);
-        bytes.CopyTo(body.GetSpan(bytes.Length));
-        body.Advance(bytes.Length);
-        Chunk([name, "list", "element"], Physical.Double, ValueEncoding.Plain, levels, body.WrittenSpan, ColumnStatistics.Of(values, levels - values.Length), levels: true);
+
+        // The codec follows the values alone: the levels at a page's start always shrink, chaotic samples do not.
+        BeginChunk(Compressible(MemoryMarshal.AsBytes(values)) ? Codec.Snappy : Codec.Uncompressed);
+        var dataPage = position;
+        var (row, value) = (0, 0);
+        do
+        {
+            // Whole rows, as many as fit in a page's values (at least one; an empty row takes a level, no value).
+            var (rows, pageLevels, pageValueCount) = (0, 0, 0);
+            while (row + rows < counts.Length && (rows == 0 || pageLevels + Math.Max(1, counts[row + rows]) <= pageValues))
+            {
+                pageLevels += Math.Max(1, counts[row + rows]);
+                pageValueCount += counts[row + rows];
+                rows++;
+            }
+
+            var rowCounts = counts.Slice(row, rows);
+            var bytes = MemoryMarshal.AsBytes(values.Slice(value, pageValueCount));
+            body.Reset((2 * LevelBound(pageLevels)) + bytes.Length);
+            var at = BeginLength();
+            ListLevels.Encode(rowCounts, repetition: true, body);
+            EndLength(at);
+            at = BeginLength();
+            ListLevels.Encode(rowCounts, repetition: false, body);
+            EndLength(at);
+            bytes.CopyTo(body.GetSpan(bytes.Length));
+            body.Advance(bytes.Length);
+            Page(PageKind.Data, ValueEncoding.Plain, pageLevels, body.WrittenSpan);
+            (row, value) = (row + rows, value + pageValueCount);
+        }
+        while (row < counts.Length);
+
+        EndChunk([name, "list", "element"], Physical.Double, [ValueEncoding.Plain, ValueEncoding.Rle], levels, dataPage, null, ColumnStatistics.Of(values, levels - values.Length));
     }
 
     public void Dispose()
