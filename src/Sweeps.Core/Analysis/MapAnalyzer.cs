@@ -29,6 +29,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
     private readonly double[] products;
     private readonly double[] sums;
     private readonly double[] firstHalf;
+
+    // A point's exponents, their errors and its samples as classified, reused from point to point (results copy them).
+    private readonly double[] exponentValues;
+    private readonly double[] errorValues;
+    private readonly double[] sampleValues;
     private readonly PeriodDetector detector;
 
     // The running products of the tangent growths (and of |det J|) are split into mantissa and binary exponent every
@@ -79,6 +84,9 @@ public sealed class MapAnalyzer : IPointAnalyzer
         tangentStep = n > 1 && vectors > 0 ? Kernels.MapStepCode.Scalar(model, vectors) : null;
         firstHalf = new double[Math.Max(vectors, 1)];
         detector = new PeriodDetector(n, settings.MaxPeriod, settings.Tolerance);
+        exponentValues = new double[vectors];
+        errorValues = new double[vectors];
+        sampleValues = new double[Math.Min(settings.Samples, detector.Capacity) * n];
         frame = TangentFrame.Initial(n, vectors);
         series = settings.Indicators ? new double[(int)Math.Min(settings.Measure, IndicatorWindow)] : [];
     }
@@ -203,17 +211,13 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private PointResult Classify(double[] parameters)
     {
-        var (exponents, errors) = Exponents();
-        var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
-        var period = detector.FindPeriod();
+        var (period, verdict, logDetMean) = Judge(parameters);
         double[][] cycle = period == 0 || Lean ? [] : new double[period][];
         for (var i = 0; i < cycle.Length; i++)
         {
             cycle[i] = detector.State(detector.Count - period + i).ToArray();
         }
 
-        var multiplier = period > 0 ? CycleMultiplier(period, parameters) : double.NaN;
-        var verdict = MapClassifier.Decide(period, multiplier, exponents, errors, settings);
         var indicators = series.Length > 0 ? Core.Indicators.IndicatorValues.Of(series) : null;
         if (indicators?.Disagreement(verdict.Regime) is { } disagreement)
         {
@@ -223,8 +227,8 @@ public sealed class MapAnalyzer : IPointAnalyzer
         return new PointResult(
             verdict.Regime,
             verdict.Regime is Regime.FixedPoint or Regime.Periodic ? period : 0,
-            exponents,
-            errors,
+            exponentValues.ToArray(),
+            errorValues.ToArray(),
             logDetMean,
             x.ToArray(),
             cycle,
@@ -235,21 +239,47 @@ public sealed class MapAnalyzer : IPointAnalyzer
             Box: Lean ? null : verdict.Regime is Regime.FixedPoint or Regime.Periodic ? StateBox.Of(cycle) : detector.Bounds(x));
     }
 
+    /// <summary>
+    /// Classifies as <see cref="Classify(double[])"/> does and hands the fields a part keeps to <paramref name="rows"/>
+    /// as point <paramref name="lane"/>, from the analyzer's own buffers (with indicators: the whole result).
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private (double[] Exponents, double[] Errors) Exponents()
+    private void Classify(double[] parameters, IPointRows rows, int lane)
     {
-        var exponents = new double[vectors];
-        var errors = new double[vectors];
+        if (series.Length > 0)
+        {
+            rows.Add(lane, Classify(parameters));
+            return;
+        }
+
+        var (period, verdict, _) = Judge(parameters);
+        var samples = detector.Last(settings.Samples, sampleValues);
+        rows.Add(lane, verdict.Regime, verdict.Regime is Regime.FixedPoint or Regime.Periodic ? period : 0, exponentValues, errorValues, x, verdict.Reason, samples);
+    }
+
+    /// <summary>The exponents and their errors (into the analyzer's buffers), the period and the verdict of the orbit just measured.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private (int Period, Verdict Verdict, double LogDetMean) Judge(double[] parameters)
+    {
+        Exponents();
+        var logDetMean = vectors == n && n > 0 ? (n == 1 ? sums[0] : logDetSum) / settings.Measure : double.NaN;
+        var period = detector.FindPeriod();
+        var multiplier = period > 0 ? CycleMultiplier(period, parameters) : double.NaN;
+        return (period, MapClassifier.Decide(period, multiplier, exponentValues, errorValues, settings), logDetMean);
+    }
+
+    /// <summary>The exponents and their convergence estimates into <see cref="exponentValues"/> and <see cref="errorValues"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Exponents()
+    {
         var half = settings.Measure / 2;
         for (var i = 0; i < vectors; i++)
         {
-            exponents[i] = sums[i] / settings.Measure;
+            exponentValues[i] = sums[i] / settings.Measure;
             var early = firstHalf[i] / half;
             var late = (sums[i] - firstHalf[i]) / (settings.Measure - half);
-            errors[i] = early == late ? 0.0 : Math.Abs(early - late);
+            errorValues[i] = early == late ? 0.0 : Math.Abs(early - late);
         }
-
-        return (exponents, errors);
     }
 
     /// <summary>Spectral radius of the product of Jacobians around the cycle of the last <paramref name="period"/> recorded states (its Floquet multiplier).</summary>
@@ -402,6 +432,11 @@ public sealed class MapAnalyzer : IPointAnalyzer
     internal PointResult Finish(double sum, double firstHalfSum, double final, double[] parameters) =>
         Finish([final], [sum], [firstHalfSum], 0, parameters);
 
+    /// <summary>As <see cref="Finish(double, double, double, double[])"/>, the outcome handed to <paramref name="rows"/> as point <paramref name="lane"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal void Finish(double sum, double firstHalfSum, double final, double[] parameters, IPointRows rows, int lane) =>
+        Finish([final], [sum], [firstHalfSum], 0, parameters, rows, lane);
+
     /// <summary>
     /// Classifies an orbit computed elsewhere (by <see cref="Kernels.MapLaneAnalyzer"/>, or the block kernel for one variable):
     /// the final state, per tangent vector the sum of the logarithms of its growth over the measurement and over its
@@ -411,11 +446,24 @@ public sealed class MapAnalyzer : IPointAnalyzer
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal PointResult Finish(ReadOnlySpan<double> final, ReadOnlySpan<double> growthSums, ReadOnlySpan<double> firstHalfSums, double logDet, double[] parameters)
     {
+        Take(final, growthSums, firstHalfSums, logDet);
+        return Classify(parameters);
+    }
+
+    /// <summary>As the method above, the outcome handed to <paramref name="rows"/> as point <paramref name="lane"/>.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal void Finish(ReadOnlySpan<double> final, ReadOnlySpan<double> growthSums, ReadOnlySpan<double> firstHalfSums, double logDet, double[] parameters, IPointRows rows, int lane)
+    {
+        Take(final, growthSums, firstHalfSums, logDet);
+        Classify(parameters, rows, lane);
+    }
+
+    private void Take(ReadOnlySpan<double> final, ReadOnlySpan<double> growthSums, ReadOnlySpan<double> firstHalfSums, double logDet)
+    {
         final.CopyTo(x);
         growthSums.CopyTo(sums);
         firstHalfSums.CopyTo(firstHalf);
         logDetSum = logDet;
-        return Classify(parameters);
     }
 
     /// <summary>

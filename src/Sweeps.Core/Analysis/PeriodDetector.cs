@@ -81,14 +81,22 @@ internal sealed class PeriodDetector
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public double[] Last(int count)
     {
+        var states = new double[Math.Min(count, this.count) * n];
+        Last(count, states);
+        return states;
+    }
+
+    /// <summary>As <see cref="Last(int)"/>, into <paramref name="into"/> (room for them); returns the part written.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public ReadOnlySpan<double> Last(int count, Span<double> into)
+    {
         count = Math.Min(count, this.count);
-        var states = new double[count * n];
         for (var i = 0; i < count; i++)
         {
-            State(this.count - count + i).CopyTo(states.AsSpan(i * n, n));
+            State(this.count - count + i).CopyTo(into.Slice(i * n, n));
         }
 
-        return states;
+        return into[..(count * n)];
     }
 
     /// <summary>The smallest box holding every stored state, or the point <paramref name="fallback"/> when none is stored.</summary>

@@ -19,4 +19,19 @@ public interface IBlockAnalyzer
     /// <paramref name="parameters"/>[i] describe point i; its result goes to <paramref name="results"/>[i].
     /// </summary>
     void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results);
+
+    /// <summary>
+    /// As the method above, each point's outcome handed to <paramref name="rows"/> in order (map analyzers: as fields,
+    /// straight from their buffers, wherever they classify a point themselves). If this throws, the points before the
+    /// one it failed on have been handed over and no other.
+    /// </summary>
+    void Analyze(double[][] initial, double[][] parameters, int count, IPointRows rows)
+    {
+        var results = new PointResult[count];
+        Analyze(initial, parameters, count, results);
+        for (var i = 0; i < count; i++)
+        {
+            rows.Add(i, results[i]);
+        }
+    }
 }

@@ -35,6 +35,9 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     private readonly double[] window;
     private readonly double[] orbits;
 
+    // States the block's window holds after Run: min(measure, window length).
+    private int recorded;
+
     /// <param name="model">A one-variable map.</param>
     /// <param name="settings">The analysis settings.</param>
     /// <param name="lean">Results without cycle states and window box (<see cref="MapAnalyzer.Lean"/>).</param>
@@ -77,8 +80,26 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     /// Analyses <paramref name="count"/> ≤ 32 points: <paramref name="initial"/>[i] and <paramref name="parameters"/>[i]
     /// describe point i; its result goes to <paramref name="results"/>[i].
     /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results)
+    {
+        Run(initial, parameters, count);
+        Finish(initial, parameters, count, results, null);
+    }
+
+    /// <summary>
+    /// As <see cref="Analyze(double[][], double[][], int, PointResult[])"/>, each outcome handed to <paramref name="rows"/>
+    /// in order, as soon as it is classified — as fields where the block classifies a point itself, as a result where the
+    /// scalar analyzer does it again. If this throws, the points before the one it failed on have been handed over.
+    /// </summary>
+    public void Analyze(double[][] initial, double[][] parameters, int count, IPointRows rows)
+    {
+        Run(initial, parameters, count);
+        Finish(initial, parameters, count, null, rows);
+    }
+
+    /// <summary>The orbits of the block's points: the kernel's transient and measurement, the recorded window.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private void Run(double[][] initial, double[][] parameters, int count)
     {
         Load(initial, parameters, count);
         var measure = settings.Measure;
@@ -138,7 +159,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
             Flush();
         }
 
-        Finish(initial, parameters, count, (int)Math.Min(measure, capacity), results);
+        recorded = (int)Math.Min(measure, capacity);
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -186,8 +207,9 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
     }
 
+    /// <summary>Each point's outcome into <paramref name="results"/>, or else to <paramref name="rows"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Finish(double[][] initial, double[][] parameters, int count, int recorded, PointResult[] results)
+    private void Finish(double[][] initial, double[][] parameters, int count, PointResult[]? results, IPointRows? rows)
     {
         Transpose(recorded);
         for (var i = 0; i < count; i++)
@@ -195,7 +217,16 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
             var (g, e) = (i / Width, i % Width);
             if (flagged[g].GetElement(e) != 0)
             {
-                results[i] = Careful(initial[i], parameters[i]);
+                var careful = Careful(initial[i], parameters[i]);
+                if (results is not null)
+                {
+                    results[i] = careful;
+                }
+                else
+                {
+                    rows!.Add(i, careful);
+                }
+
                 continue;
             }
 
@@ -203,7 +234,14 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
 
             var sum = measuresGrowth ? MapAnalyzer.LogOf(product[g].GetElement(e), binaryExponents[g].GetElement(e)) : 0;
             var firstHalf = measuresGrowth ? MapAnalyzer.LogOf(halfMantissas[g].GetElement(e), halfExponents[g].GetElement(e)) : 0;
-            results[i] = scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i]);
+            if (results is not null)
+            {
+                results[i] = scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i]);
+            }
+            else
+            {
+                scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i], rows!, i);
+            }
         }
     }
 

@@ -45,6 +45,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     private readonly double[] final;
     private readonly double[] laneSums;
     private readonly double[] laneHalves;
+    private double laneLogDet;
     private readonly double[] laneJacobian;
     private int flagged;
 
@@ -103,8 +104,20 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     /// <summary>Points the lanes flagged and the scalar analyzer computed (a count since construction).</summary>
     public long Rechecked { get; private set; }
 
+    public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results) =>
+        Analyze(initial, parameters, count, results, null);
+
+    /// <summary>
+    /// As <see cref="Analyze(double[][], double[][], int, PointResult[])"/>, each outcome handed to <paramref name="rows"/>
+    /// in order — as fields where the lanes classify a point themselves, as a result where the scalar analyzer does it
+    /// again. If this throws, the points before the one it failed on have been handed over.
+    /// </summary>
+    public void Analyze(double[][] initial, double[][] parameters, int count, IPointRows rows) =>
+        Analyze(initial, parameters, count, null, rows);
+
+    /// <summary>Each point's outcome into <paramref name="results"/>, or else to <paramref name="rows"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results)
+    private void Analyze(double[][] initial, double[][] parameters, int count, PointResult[]? results, IPointRows? rows)
     {
         var live = (1 << count) - 1;
         Load(initial, parameters, count);
@@ -120,7 +133,30 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
 
         for (var j = 0; j < count; j++)
         {
-            results[j] = (flagged & (1 << j)) != 0 ? Careful(initial[j], parameters[j]) : Finish(j, recorded, parameters[j]);
+            if ((flagged & (1 << j)) != 0)
+            {
+                var careful = Careful(initial[j], parameters[j]);
+                if (results is not null)
+                {
+                    results[j] = careful;
+                }
+                else
+                {
+                    rows!.Add(j, careful);
+                }
+
+                continue;
+            }
+
+            Prepare(j, recorded);
+            if (results is not null)
+            {
+                results[j] = scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j]);
+            }
+            else
+            {
+                scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j], rows!, j);
+            }
         }
     }
 
@@ -280,9 +316,9 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
         return (int)~inside.ExtractMostSignificantBits() & 0xF;
     }
 
-    /// <summary>Lane <paramref name="j"/>'s result through the scalar classification, from the lane's orbit and products.</summary>
+    /// <summary>Lane <paramref name="j"/>'s final state, logarithms and window, ready for the scalar classification.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private PointResult Finish(int j, int recorded, double[] pointParameters)
+    private void Prepare(int j, int recorded)
     {
         for (var i = 0; i < n; i++)
         {
@@ -301,8 +337,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
             orbit[k] = window[(k * Width) + j];
         }
 
-        var logDet = MapAnalyzer.LogOf(detProduct.GetElement(j), detExponent.GetElement(j));
-        return scalar.Finish(final, laneSums, laneHalves, logDet, pointParameters);
+        laneLogDet = MapAnalyzer.LogOf(detProduct.GetElement(j), detExponent.GetElement(j));
     }
 
     private PointResult Careful(double[] initial, double[] pointParameters)

@@ -181,27 +181,24 @@ public static class ChunkRunner
         var size = block.BlockSize;
         var source = new Specs.BlockSource(spec, size);
         var (initial, parameters, axes, points) = (source.Initial, source.Parameters, source.AxisValues, source.Points);
-        var results = new PointResult[size];
+        var rows = new BlockRows(columns, source);
         for (var i = 0; i < count; i += size)
         {
             var lanes = Math.Min(size, count - i);
             source.Fill(lanes, pointAt, offset: i);
+            var before = columns.Count;
 
             try
             {
-                block.Analyze(initial, parameters, lanes, results);
+                block.Analyze(initial, parameters, lanes, rows);
             }
             catch (Exception error) when (error is ArithmeticException or ArgumentException or InvalidOperationException or IndexOutOfRangeException)
             {
-                for (var j = 0; j < lanes; j++)
+                // The points handed over before the failure are the scalar analyzer's results already (bit for bit).
+                for (var j = columns.Count - before; j < lanes; j++)
                 {
-                    results[j] = Analyze(block.Scalar, initial[j], parameters[j]);
+                    columns.Add(points[j], axes[j], Analyze(block.Scalar, initial[j], parameters[j]));
                 }
-            }
-
-            for (var j = 0; j < lanes; j++)
-            {
-                columns.Add(points[j], axes[j], results[j]);
             }
 
             token.ThrowIfCancellationRequested();
@@ -209,6 +206,15 @@ public static class ChunkRunner
         }
 
         return (columns, attractors);
+    }
+
+    /// <summary>A block's outcomes straight into the chunk's columns, at the block's points.</summary>
+    private sealed class BlockRows(ChunkColumns columns, Specs.BlockSource source) : IPointRows
+    {
+        public void Add(int lane, PointResult result) => columns.Add(source.Points[lane], source.AxisValues[lane], result);
+
+        public void Add(int lane, Regime regime, int period, ReadOnlySpan<double> lyapunov, ReadOnlySpan<double> lyapunovError, ReadOnlySpan<double> finalState, string? reason, ReadOnlySpan<double> samples) =>
+            columns.Add(source.Points[lane], source.AxisValues[lane], regime, period, double.NaN, lyapunov, lyapunovError, finalState, null, reason, samples);
     }
 
     /// <summary>

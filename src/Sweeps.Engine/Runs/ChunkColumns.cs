@@ -136,8 +136,24 @@ internal sealed class ChunkColumns
     /// </summary>
     public int[] SampleCounts { get; }
 
+    public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1) =>
+        Add(point, axisValues, result.Regime, result.Period, result.PeriodTime, result.Lyapunov, result.LyapunovError, result.FinalState, result.Indicators, result.Reason, result.Samples, attractors);
+
+    /// <summary>Adds a row from the fields of a point's outcome (<see cref="PointResult"/>'s), with one start.</summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
-    public void Add(long point, ReadOnlySpan<double> axisValues, PointResult result, int attractors = 1)
+    public void Add(
+        long point,
+        ReadOnlySpan<double> axisValues,
+        Regime regime,
+        int period,
+        double periodTime,
+        ReadOnlySpan<double> lyapunov,
+        ReadOnlySpan<double> lyapunovError,
+        ReadOnlySpan<double> finalState,
+        Core.Indicators.IndicatorValues? indicators,
+        string? reason,
+        ReadOnlySpan<double> samples,
+        int attractors = 1)
     {
         var row = Count++;
         Attractors[row] = attractors;
@@ -147,27 +163,26 @@ internal sealed class ChunkColumns
             Axis[a][row] = axisValues[a];
         }
 
-        Regime[row] = result.Regime.ToText();
-        Period[row] = result.Period;
-        PeriodTime[row] = result.PeriodTime;
+        Regime[row] = regime.ToText();
+        Period[row] = period;
+        PeriodTime[row] = periodTime;
         for (var i = 0; i < n; i++)
         {
-            Lyapunov[i][row] = i < result.Lyapunov.Length ? result.Lyapunov[i] : double.NaN;
-            LyapunovError[i][row] = i < result.LyapunovError.Length ? result.LyapunovError[i] : double.NaN;
-            Final[i][row] = result.FinalState[i];
+            Lyapunov[i][row] = i < lyapunov.Length ? lyapunov[i] : double.NaN;
+            LyapunovError[i][row] = i < lyapunovError.Length ? lyapunovError[i] : double.NaN;
+            Final[i][row] = finalState[i];
         }
 
         if (Indicators.Length > 0)
         {
-            var values = result.Indicators;
-            Indicators[0][row] = values?.K ?? double.NaN;
-            Indicators[1][row] = values?.PermutationEntropy ?? double.NaN;
-            Indicators[2][row] = values?.LempelZiv ?? double.NaN;
+            Indicators[0][row] = indicators?.K ?? double.NaN;
+            Indicators[1][row] = indicators?.PermutationEntropy ?? double.NaN;
+            Indicators[2][row] = indicators?.LempelZiv ?? double.NaN;
         }
 
-        SetReason(row, result.Reason);
-        SampleCounts[row] = result.Samples.Length;
-        SampleValues.Write(result.Samples);
+        SetReason(row, reason);
+        SampleCounts[row] = samples.Length;
+        SampleValues.Write(samples);
     }
 
     /// <summary>Adds the backward branch of the row just added.</summary>

@@ -8,7 +8,8 @@ namespace Sweeps.Core.Tests.Kernels;
 /// The block kernel against the scalar analyzer: for every point, the same result bit for bit — regime, period,
 /// exponents and their errors, final state, cycle, samples, box and reason — including points the kernel hands
 /// back to the scalar path (escapes, superstable orbits, non-finite values) — with the generated loops on four-lane and
-/// on eight-lane vectors (the eight-lane form runs on any processor; without 512-bit vectors it is only slower).
+/// on eight-lane vectors (the eight-lane form runs on any processor; without 512-bit vectors it is only slower), and
+/// with the outcomes handed over as results and as rows.
 /// </summary>
 public sealed class MapBlockAnalyzerTests
 {
@@ -58,6 +59,11 @@ public sealed class MapBlockAnalyzerTests
 
             // Not a comparison of the scalar path with itself: most points went through the kernel.
             Assert.True(block.Rechecked < points / 2, $"{name}: {block.Rechecked} of {points} points were handed to the scalar path");
+
+            // As rows: every point the kernel classified itself handed over as fields, the others as results.
+            var rows = new MapBlockAnalyzer(model, settings, width: width);
+            var fields = SameResult.CheckEveryRow(rows, new MapAnalyzer(model, settings), points, [start], from, to, $"{name}, {width} lanes a vector, {settings}");
+            Assert.Equal(points - rows.Rechecked, fields);
         }
     }
 }

@@ -8,7 +8,8 @@ namespace Sweeps.Core.Tests.Kernels;
 /// The four-lane analyzer for maps of several variables against the scalar analyzer: every field of every point's
 /// result bit for bit — regime, period, exponents and their errors, mean ln|det J|, final state, cycle, samples, box,
 /// reason — across periodic, chaotic and escaping points, the three Lyapunov modes, a 3 × 3 determinant by
-/// elimination, and points the lanes hand back to the scalar path (escapes, collapsed directions).
+/// elimination, and points the lanes hand back to the scalar path (escapes, collapsed directions); with the outcomes
+/// handed over as results and as rows.
 /// </summary>
 public sealed class MapLaneAnalyzerTests
 {
@@ -37,6 +38,11 @@ public sealed class MapLaneAnalyzerTests
             var lanes = new MapLaneAnalyzer(model, settings);
             const int points = 23;
             SameResult.CheckEveryPoint(lanes, new MapAnalyzer(model, settings), points, start, from, to, $"{name}, {settings}");
+
+            // As rows: every point the lanes classified themselves handed over as fields, the others as results.
+            var rows = new MapLaneAnalyzer(model, settings);
+            var fields = SameResult.CheckEveryRow(rows, new MapAnalyzer(model, settings), points, start, from, to, $"{name}, {settings}");
+            Assert.Equal(points - rows.Rechecked, fields);
 
             if (name != "collapsing direction" || settings.Lyapunov == LyapunovMode.None)
             {

@@ -48,6 +48,56 @@ internal static class SameResult
         }
     }
 
+    /// <summary>
+    /// As <see cref="CheckEveryPoint"/>, with the outcomes handed over as rows (<see cref="IPointRows"/>): each in order,
+    /// whole results checked in full, fields against the reference's fields (a part keeps no cycle, box or mean log
+    /// determinant). Returns how many came as fields.
+    /// </summary>
+    public static int CheckEveryRow(IBlockAnalyzer block, IPointAnalyzer reference, int points, double[] start, double from, double to, string where)
+    {
+        var size = block.BlockSize;
+        var (initial, parameters, rows) = (new double[size][], new double[size][], new RecordedRows());
+        var asFields = 0;
+        for (var first = 0; first < points; first += size)
+        {
+            var count = Math.Min(size, points - first);
+            for (var i = 0; i < count; i++)
+            {
+                initial[i] = start.ToArray();
+                parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
+            }
+
+            rows.Clear();
+            block.Analyze(initial, parameters, count, rows);
+            Assert.Equal(count, rows.Count);
+            for (var i = 0; i < count; i++)
+            {
+                var expected = reference.Analyze(initial[i], parameters[i]);
+                var (fields, actual) = rows[i];
+                asFields += fields ? 1 : 0;
+                Check(fields ? expected with { Cycle = [], Box = null, LogDetMean = double.NaN } : expected, actual, $"{where}, rows, r = {parameters[i][0]:R}");
+            }
+        }
+
+        return asFields;
+    }
+
+    /// <summary>Rows as they arrive; fields kept as a result without cycle, box or mean log determinant.</summary>
+    private sealed class RecordedRows : List<(bool Fields, PointResult Result)>, IPointRows
+    {
+        public void Add(int lane, PointResult result)
+        {
+            Assert.Equal(Count, lane);
+            Add((false, result));
+        }
+
+        public void Add(int lane, Regime regime, int period, ReadOnlySpan<double> lyapunov, ReadOnlySpan<double> lyapunovError, ReadOnlySpan<double> finalState, string? reason, ReadOnlySpan<double> samples)
+        {
+            Assert.Equal(Count, lane);
+            Add((true, new PointResult(regime, period, lyapunov.ToArray(), lyapunovError.ToArray(), double.NaN, finalState.ToArray(), [], null, reason, samples.ToArray())));
+        }
+    }
+
     private static double[] Values(Core.Indicators.IndicatorValues? indicators) =>
         indicators is null ? [] : [indicators.K, indicators.PermutationEntropy, indicators.LempelZiv];
 
