@@ -31,21 +31,19 @@ internal static class DirectLoop
             // Lean results, as chunks of single-start sweeps compute them.
             if (AnalyzerFactory.CreateBlock(spec, model, lean: true) is { } block)
             {
-                // The block kernel, as chunks use it.
+                // The block kernel, as chunks use it: outcomes handed over as rows.
                 var size = block.BlockSize;
                 var lanesSource = new BlockSource(spec, size);
-                var results = new PointResult[size];
+                var rows = new ChecksumRows();
                 for (var point = first; point < last; point += size)
                 {
                     var lanes = (int)Math.Min(size, last - point);
                     var start = point;
                     lanesSource.Fill(lanes, j => start + j);
-                    block.Analyze(lanesSource.Initial, lanesSource.Parameters, lanes, results);
-                    for (var j = 0; j < lanes; j++)
-                    {
-                        sum += Check(results[j]);
-                    }
+                    block.Analyze(lanesSource.Initial, lanesSource.Parameters, lanes, rows);
                 }
+
+                sum = rows.Sum;
             }
             else
             {
@@ -65,5 +63,17 @@ internal static class DirectLoop
         var seconds = clock.Elapsed.TotalSeconds;
         Console.WriteLine(FormattableString.Invariant(
             $"direct {points} points {seconds:F2} s {points / seconds:F0} points/s checksum {checksums.Sum():G6} collections {GC.CollectionCount(0)}/{GC.CollectionCount(1)}/{GC.CollectionCount(2)} allocated {GC.GetTotalAllocatedBytes() / 1048576} MiB paused {GC.GetTotalPauseDuration().TotalSeconds:F3} s threads done at {string.Join(" ", busy.Select(b => b.ToString("F2", System.Globalization.CultureInfo.InvariantCulture)))} s"));
+    }
+
+    /// <summary>Outcomes reduced to the checksum the results give (period plus a finite largest exponent).</summary>
+    private sealed class ChecksumRows : IPointRows
+    {
+        public double Sum { get; private set; }
+
+        public void Add(int lane, PointResult result) =>
+            Sum += result.Period + (result.Lyapunov.Length > 0 && double.IsFinite(result.Lyapunov[0]) ? result.Lyapunov[0] : 0);
+
+        public void Add(int lane, Regime regime, int period, ReadOnlySpan<double> lyapunov, ReadOnlySpan<double> lyapunovError, ReadOnlySpan<double> finalState, string? reason, ReadOnlySpan<double> samples) =>
+            Sum += period + (lyapunov.Length > 0 && double.IsFinite(lyapunov[0]) ? lyapunov[0] : 0);
     }
 }
