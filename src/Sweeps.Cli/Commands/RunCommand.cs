@@ -100,16 +100,17 @@ internal static class RunCommand
 
         var clock = Stopwatch.StartNew();
         var context = new RunContext(run, setup.Model);
+        var stopping = Task.CompletedTask;
         if (missing.Count > 0)
         {
-            var stopped = await ComputeAsync(cli, await warm, context, missing, pointsToRun, token);
+            (var stopped, stopping) = await ComputeAsync(cli, await warm, context, missing, pointsToRun, token);
             if (stopped is { } code)
             {
                 return code;
             }
         }
 
-        // The computing time, queue start and stop included; reading the summary back is not computing.
+        // The computing time, the queue's start included; reading the summary back is not computing.
         var computing = clock.Elapsed.TotalSeconds;
         run.MarkFinished(cli.Clock);
         var summary = await RunSummary.ReadAsync(context, CancellationToken.None);
@@ -118,11 +119,15 @@ internal static class RunCommand
         SummaryText.Line(output, "regimes", SummaryText.Regimes(summary));
         SummaryText.Line(output, "periods", SummaryText.Periods(summary));
         SummaryText.Multistability(output, summary);
+        await stopping;
         return ExitCodes.Success;
     }
 
-    /// <summary>Computes the missing chunks on the embedded queue; returns an exit code if the run did not complete.</summary>
-    private static async Task<int?> ComputeAsync(CliContext cli, IHost host, RunContext context, IReadOnlyList<long> missing, long pointsToRun, CancellationToken token)
+    /// <summary>
+    /// Computes the missing chunks on the embedded queue; returns an exit code if the run did not complete, and the
+    /// queue's stop — still going when every chunk is done, so that the run closes while the idle workers stop.
+    /// </summary>
+    private static async Task<(int? Code, Task Stopping)> ComputeAsync(CliContext cli, IHost host, RunContext context, IReadOnlyList<long> missing, long pointsToRun, CancellationToken token)
     {
         var run = context.Run;
         host.Services.GetRequiredService<RunContexts>().Add(context);
@@ -131,13 +136,18 @@ internal static class RunCommand
         await host.StartAsync(CancellationToken.None);
         bool Pending() => counters.ChunksDone + counters.ChunksFailed < missing.Count;
         await ProgressView.Create(cli.Output, cli.Interactive).ShowAsync(pointsToRun, () => counters.Points, Pending, () => counters.NextChunk, token);
-        await host.StopAsync(CancellationToken.None);
+        var stopping = host.StopAsync(CancellationToken.None);
+        if (!Pending() && counters.ChunksFailed == 0)
+        {
+            return (null, stopping);
+        }
 
+        await stopping;
         if (token.IsCancellationRequested && Pending())
         {
             var done = run.Manifest.ChunkCount - run.MissingChunks().Count;
             cli.Error.WriteLine($"stopped: {done:N0} of {run.Manifest.ChunkCount:N0} chunks are done and kept; run the same command again to resume");
-            return ExitCodes.Failed;
+            return (ExitCodes.Failed, stopping);
         }
 
         if (counters.ChunksFailed > 0)
@@ -148,9 +158,9 @@ internal static class RunCommand
             }
 
             cli.Error.WriteLine($"{counters.ChunksFailed} chunk(s) failed; the others are kept; fix the cause and run again to resume");
-            return ExitCodes.Failed;
+            return (ExitCodes.Failed, stopping);
         }
 
-        return null;
+        return (null, stopping);
     }
 }

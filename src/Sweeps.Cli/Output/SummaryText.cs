@@ -5,15 +5,55 @@ namespace Sweeps.Cli.Output;
 /// <summary>Text forms of a run summary, shared by run, inspect and status.</summary>
 internal static class SummaryText
 {
-    public static string Regimes(RunSummary summary) =>
-        summary.Regimes.Count == 0
-            ? "none yet"
-            : string.Join("  ", summary.Regimes.OrderByDescending(r => r.Value).ThenBy(r => r.Key, StringComparer.Ordinal).Select(r => $"{r.Key} {r.Value:N0}"));
+    // Both written as plain loops: LINQ's ordering and projection over key–value pairs are generic code that no precompiled
+    // image holds, compiled at the end of every run just to print these two lines (18 methods, 8 ms).
 
-    public static string Periods(RunSummary summary) =>
-        summary.Periods.Count == 0
-            ? "none"
-            : string.Join("  ", summary.Periods.Take(16).Select(p => $"{p.Key}: {p.Value:N0}")) + (summary.Periods.Count > 16 ? "  …" : "");
+    /// <summary>The regimes by decreasing count (ties by name), each with its count.</summary>
+    public static string Regimes(RunSummary summary)
+    {
+        if (summary.Regimes.Count == 0)
+        {
+            return "none yet";
+        }
+
+        var names = new List<string>(summary.Regimes.Count);
+        foreach (var entry in summary.Regimes)
+        {
+            names.Add(entry.Key);
+        }
+
+        names.Sort((a, b) => summary.Regimes[b].CompareTo(summary.Regimes[a]) is var order and not 0 ? order : string.CompareOrdinal(a, b));
+        var text = new System.Text.StringBuilder();
+        foreach (var name in names)
+        {
+            text.Append(text.Length == 0 ? "" : "  ").Append($"{name} {summary.Regimes[name]:N0}");
+        }
+
+        return text.ToString();
+    }
+
+    /// <summary>The first 16 periods in the summary's order, each with its count.</summary>
+    public static string Periods(RunSummary summary)
+    {
+        if (summary.Periods.Count == 0)
+        {
+            return "none";
+        }
+
+        var text = new System.Text.StringBuilder();
+        var shown = 0;
+        foreach (var entry in summary.Periods)
+        {
+            if (shown++ == 16)
+            {
+                return text.Append("  …").ToString();
+            }
+
+            text.Append(text.Length == 0 ? "" : "  ").Append($"{entry.Key}: {entry.Value:N0}");
+        }
+
+        return text.ToString();
+    }
 
     /// <summary>The lines about coexisting attractors, when a run has any to report (several starts or a continuation sweep).</summary>
     public static void Multistability(TextWriter output, RunSummary summary)
