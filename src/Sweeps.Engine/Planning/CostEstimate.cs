@@ -137,10 +137,13 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         }
         while (warmUp.Elapsed.TotalSeconds < budget);
 
-        // Four places along the grid, each timed five times (three for a quick estimate); the median of each (a block
-        // is short enough for one collection or a background compilation to multiply its time). A quick estimate stops
-        // once its time budget is spent, after two places at least: blocks of slow points (a flow's block takes 10–50
-        // ms) are long enough for one timing each, and the run waits for the estimate before its first chunk.
+        // Four places along the grid, each timed five times; the median of each (a block is short enough for one
+        // collection or a background compilation to multiply its time). A quick estimate stops once its time budget is
+        // spent, after two places at least: blocks of slow points (a flow's block takes 10–50 ms) are long enough for
+        // one timing each, and the run waits for the estimate before its first chunk. It times a block up to eight times
+        // and keeps the fastest: it runs while the queue and the part writer warm up on the other threads, so a block
+        // of cheap points (tens of microseconds) is often interrupted, and noise only ever adds time — the median of
+        // three put a 10^6-point map sweep at 1.5 to 9 times its real cost (docs/performance.md, tenth session).
         var total = 0.0;
         const int Blocks = 4;
         var places = 0;
@@ -155,7 +158,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
             }
 
             Fill(points * place / Blocks, lanes);
-            var times = new double[quick ? 3 : 5];
+            var times = new double[quick ? 8 : 5];
             var taken = 0;
             while (taken < times.Length && !(quick && taken > 0 && spent.Elapsed.TotalSeconds > QuickBudget))
             {
@@ -165,7 +168,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
             }
 
             Array.Sort(times, 0, taken);
-            total += times[taken / 2];
+            total += quick ? times[0] : times[taken / 2];
             places++;
         }
 
