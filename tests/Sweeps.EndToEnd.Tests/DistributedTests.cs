@@ -163,7 +163,10 @@ public sealed class DistributedTests(PostgresFixture postgres)
 
     private Process StartWorker(string folder, string queue)
     {
-        var worker = SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "5");
+        // A killed worker's chunk comes back after the invisibility timeout. 15 s rather than 5: with the whole suite
+        // running beside these tests, a chunk's keep-alive (every fifth of the timeout) could lapse, a second worker then
+        // fetched a chunk still being computed, and twice in a row a run was left one chunk short with nothing failed.
+        var worker = SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "15");
         var id = worker.Id;
         worker.OutputDataReceived += (_, line) => Log(id, line.Data);
         worker.ErrorDataReceived += (_, line) => Log(id, line.Data);
