@@ -83,7 +83,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results)
     {
         Run(initial, parameters, count);
-        Finish(initial, parameters, count, results, null);
+        Finish(initial, parameters, count, new BlockOutcomes(results, null));
     }
 
     /// <summary>
@@ -94,7 +94,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
     public void Analyze(double[][] initial, double[][] parameters, int count, IPointRows rows)
     {
         Run(initial, parameters, count);
-        Finish(initial, parameters, count, null, rows);
+        Finish(initial, parameters, count, new BlockOutcomes(null, rows));
     }
 
     /// <summary>The orbits of the block's points: the kernel's transient and measurement, the recorded window.</summary>
@@ -207,9 +207,9 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
         }
     }
 
-    /// <summary>Each point's outcome into <paramref name="results"/>, or else to <paramref name="rows"/>.</summary>
+    /// <summary>Each point's outcome to <paramref name="outcomes"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Finish(double[][] initial, double[][] parameters, int count, PointResult[]? results, IPointRows? rows)
+    private void Finish(double[][] initial, double[][] parameters, int count, BlockOutcomes outcomes)
     {
         Transpose(recorded);
         for (var i = 0; i < count; i++)
@@ -217,16 +217,7 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
             var (g, e) = (i / Width, i % Width);
             if (flagged[g].GetElement(e) != 0)
             {
-                var careful = Careful(initial[i], parameters[i]);
-                if (results is not null)
-                {
-                    results[i] = careful;
-                }
-                else
-                {
-                    rows!.Add(i, careful);
-                }
-
+                outcomes.Add(i, Careful(initial[i], parameters[i]));
                 continue;
             }
 
@@ -234,13 +225,13 @@ public sealed class MapBlockAnalyzer : IBlockAnalyzer
 
             var sum = measuresGrowth ? MapAnalyzer.LogOf(product[g].GetElement(e), binaryExponents[g].GetElement(e)) : 0;
             var firstHalf = measuresGrowth ? MapAnalyzer.LogOf(halfMantissas[g].GetElement(e), halfExponents[g].GetElement(e)) : 0;
-            if (results is not null)
+            if (outcomes.WholeResults)
             {
-                results[i] = scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i]);
+                outcomes.Add(i, scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i]));
             }
             else
             {
-                scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i], rows!, i);
+                scalar.Finish(sum, firstHalf, x[g].GetElement(e), parameters[i], outcomes.Rows, i);
             }
         }
     }

@@ -105,7 +105,7 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     public long Rechecked { get; private set; }
 
     public void Analyze(double[][] initial, double[][] parameters, int count, PointResult[] results) =>
-        Analyze(initial, parameters, count, results, null);
+        Analyze(initial, parameters, count, new BlockOutcomes(results, null));
 
     /// <summary>
     /// As <see cref="Analyze(double[][], double[][], int, PointResult[])"/>, each outcome handed to <paramref name="rows"/>
@@ -113,11 +113,11 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
     /// again. If this throws, the points before the one it failed on have been handed over.
     /// </summary>
     public void Analyze(double[][] initial, double[][] parameters, int count, IPointRows rows) =>
-        Analyze(initial, parameters, count, null, rows);
+        Analyze(initial, parameters, count, new BlockOutcomes(null, rows));
 
-    /// <summary>Each point's outcome into <paramref name="results"/>, or else to <paramref name="rows"/>.</summary>
+    /// <summary>Each point's outcome to <paramref name="outcomes"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Analyze(double[][] initial, double[][] parameters, int count, PointResult[]? results, IPointRows? rows)
+    private void Analyze(double[][] initial, double[][] parameters, int count, BlockOutcomes outcomes)
     {
         var live = (1 << count) - 1;
         Load(initial, parameters, count);
@@ -135,27 +135,18 @@ public sealed class MapLaneAnalyzer : IBlockAnalyzer
         {
             if ((flagged & (1 << j)) != 0)
             {
-                var careful = Careful(initial[j], parameters[j]);
-                if (results is not null)
-                {
-                    results[j] = careful;
-                }
-                else
-                {
-                    rows!.Add(j, careful);
-                }
-
+                outcomes.Add(j, Careful(initial[j], parameters[j]));
                 continue;
             }
 
             Prepare(j, recorded);
-            if (results is not null)
+            if (outcomes.WholeResults)
             {
-                results[j] = scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j]);
+                outcomes.Add(j, scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j]));
             }
             else
             {
-                scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j], rows!, j);
+                scalar.Finish(final, laneSums, laneHalves, laneLogDet, parameters[j], outcomes.Rows, j);
             }
         }
     }

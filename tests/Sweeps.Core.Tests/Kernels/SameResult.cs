@@ -33,13 +33,7 @@ internal static class SameResult
         var (initial, parameters, results) = (new double[size][], new double[size][], new PointResult[size]);
         for (var first = 0; first < points; first += size)
         {
-            var count = Math.Min(size, points - first);
-            for (var i = 0; i < count; i++)
-            {
-                initial[i] = start.ToArray();
-                parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
-            }
-
+            var count = FillBlock(initial, parameters, first, points, start, from, to);
             block.Analyze(initial, parameters, count, results);
             for (var i = 0; i < count; i++)
             {
@@ -60,13 +54,7 @@ internal static class SameResult
         var asFields = 0;
         for (var first = 0; first < points; first += size)
         {
-            var count = Math.Min(size, points - first);
-            for (var i = 0; i < count; i++)
-            {
-                initial[i] = start.ToArray();
-                parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
-            }
-
+            var count = FillBlock(initial, parameters, first, points, start, from, to);
             rows.Clear();
             block.Analyze(initial, parameters, count, rows);
             Assert.Equal(count, rows.Count);
@@ -80,6 +68,19 @@ internal static class SameResult
         }
 
         return asFields;
+    }
+
+    /// <summary>The block of points from <paramref name="first"/> on (as many as the arrays hold); returns how many.</summary>
+    private static int FillBlock(double[][] initial, double[][] parameters, int first, int points, double[] start, double from, double to)
+    {
+        var count = Math.Min(initial.Length, points - first);
+        for (var i = 0; i < count; i++)
+        {
+            initial[i] = start.ToArray();
+            parameters[i] = [from + ((to - from) * (first + i) / (points - 1))];
+        }
+
+        return count;
     }
 
     /// <summary>Rows as they arrive; fields kept as a result without cycle, box or mean log determinant.</summary>
