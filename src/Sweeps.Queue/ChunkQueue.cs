@@ -8,25 +8,39 @@ namespace Sweeps.Queue;
 /// <summary>
 /// Puts the missing chunks of a run on the queue, at most once each: under a distributed lock, the
 /// chunks already queued for the run are kept in a Hangfire set, and only chunks neither done nor
-/// queued are enqueued. Submitting the same run again, from any host, is therefore safe.
+/// queued are enqueued. Submitting the same run again, from any host, is therefore safe. A chunk
+/// queued before whose job will never run — its part missing and no job of it waiting, fetched or
+/// running (a job dropped by the queue, or deleted) — is queued again.
 /// </summary>
 public static class ChunkQueue
 {
     public static string SetKey(string runDirectory) => $"sweeps:queued:{runDirectory}";
 
-    /// <summary>Enqueues the chunks not yet queued; returns how many were added.</summary>
-    public static int Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing)
+    /// <summary>
+    /// Enqueues the missing chunks that have no live job (<see cref="QueueStatus.LiveChunks"/>); returns how many were
+    /// queued, and how many of those had been queued before.
+    /// </summary>
+    public static SubmitCounts Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing)
     {
         using var connection = storage.GetConnection();
         using var _ = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
         var queued = connection.GetAllItemsFromSet(SetKey(runDirectory));
-        var added = 0;
+
+        // Read only when a missing chunk was queued before (never in a fresh embedded run): it lists the queue's jobs.
+        HashSet<long>? live = null;
+        var (added, again) = (0, 0);
         foreach (var chunk in missing)
         {
             var item = chunk.ToString(System.Globalization.CultureInfo.InvariantCulture);
             if (queued.Contains(item))
             {
-                continue;
+                live ??= QueueStatus.LiveChunks(storage.GetMonitoringApi(), runDirectory);
+                if (live.Contains(chunk))
+                {
+                    continue;
+                }
+
+                again++;
             }
 
             client.Create(JobFor(runDirectory, chunk), new EnqueuedState());
@@ -36,7 +50,7 @@ public static class ChunkQueue
             added++;
         }
 
-        return added;
+        return new SubmitCounts(added, again);
     }
 
     /// <summary>
@@ -65,6 +79,9 @@ public static class ChunkQueue
 
     private static readonly System.Reflection.MethodInfo RunMethod =
         typeof(ChunkJob).GetMethod(nameof(ChunkJob.RunAsync), [typeof(string), typeof(long), typeof(CancellationToken)])!;
+
+    /// <summary>What <see cref="Submit"/> did: chunks queued, and how many of those were queued before but had no live job.</summary>
+    public readonly record struct SubmitCounts(int Queued, int Requeued);
 
     /// <summary>Forgets that a chunk is queued (after it failed for good), so that a new submit queues it again.</summary>
     public static void Forget(JobStorage storage, string runDirectory, long chunk)

@@ -1,20 +1,24 @@
 using Hangfire;
+using Hangfire.States;
 
 namespace Sweeps.Queue;
 
-/// <summary>What the shared queue knows of one run: chunks running (and where), queued, failed, and the hosts serving.</summary>
+/// <summary>
+/// What the shared queue knows of one run: chunks running (and where), queued, failed, the hosts serving, and the
+/// chunks some job will still compute (<see cref="LiveChunks"/>).
+/// </summary>
 public sealed record QueueStatus(
     IReadOnlyList<(long Chunk, string Server)> Running,
     long Queued,
     IReadOnlyList<(long Chunk, string Reason)> Failed,
-    IReadOnlyList<(string Name, int Workers, DateTime? Heartbeat)> Hosts)
+    IReadOnlyList<(string Name, int Workers, DateTime? Heartbeat)> Hosts,
+    IReadOnlySet<long> Live)
 {
     public static QueueStatus Read(JobStorage storage, string runDirectory)
     {
         var monitoring = storage.GetMonitoringApi();
         var statistics = monitoring.GetStatistics();
         bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
-        long ChunkOf(Hangfire.Common.Job job) => Convert.ToInt64(job.Args[1], System.Globalization.CultureInfo.InvariantCulture);
 
         var running = monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, statistics.Processing))
             .Where(j => Ours(j.Value.Job))
@@ -31,6 +35,41 @@ public sealed record QueueStatus(
             .Select(j => (ChunkOf(j.Value.Job), j.Value.ExceptionMessage ?? j.Value.Reason ?? "failed"))
             .ToList();
         var hosts = monitoring.Servers().Select(s => (s.Name, s.WorkersCount, s.Heartbeat)).ToList();
-        return new QueueStatus(running, queued, failed, hosts);
+        return new QueueStatus(running, queued, failed, hosts, LiveChunks(monitoring, runDirectory));
     }
+
+    /// <summary>
+    /// The run's chunks that a job will still compute: a job of the chunk waiting in a queue or fetched from one (a
+    /// worker holds it; if the worker dies, the job comes back after the invisibility timeout), in the enqueued or
+    /// processing state, or processing on a server that is still alive. A job the queue dropped, a deleted one and a
+    /// finished one (whose part was removed since) are not live: their chunks are missing for good unless queued again.
+    /// The listings are read in that order, so that a job moving on between two of them is seen in the later one.
+    /// </summary>
+    public static HashSet<long> LiveChunks(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
+    {
+        bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
+        static bool Pending(string? state) =>
+            string.Equals(state, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase) || string.Equals(state, ProcessingState.StateName, StringComparison.OrdinalIgnoreCase);
+        var live = new HashSet<long>();
+        foreach (var queue in monitoring.Queues())
+        {
+            live.UnionWith(monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length))
+                .Where(j => Ours(j.Value.Job) && Pending(j.Value.State))
+                .Select(j => ChunkOf(j.Value.Job)));
+            if (queue.Fetched is > 0 and var fetched)
+            {
+                live.UnionWith(monitoring.FetchedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, fetched))
+                    .Where(j => Ours(j.Value.Job) && Pending(j.Value.State))
+                    .Select(j => ChunkOf(j.Value.Job)));
+            }
+        }
+
+        var alive = monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal);
+        live.UnionWith(monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, monitoring.GetStatistics().Processing))
+            .Where(j => Ours(j.Value.Job) && j.Value.ServerId is { } server && alive.Contains(server))
+            .Select(j => ChunkOf(j.Value.Job)));
+        return live;
+    }
+
+    private static long ChunkOf(Hangfire.Common.Job job) => Convert.ToInt64(job.Args[1], System.Globalization.CultureInfo.InvariantCulture);
 }

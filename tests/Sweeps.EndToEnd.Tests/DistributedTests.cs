@@ -140,6 +140,53 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_JobDroppedFromTheQueue_IsShownAndQueuedAgainBySubmit()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+
+        // The queue loses chunk 0's job the way a worker gives a job up (its queue row removed, the job left in its
+        // state): nothing would ever compute the chunk, and submitting again used to call it "already queued".
+        using (var connection = new Npgsql.NpgsqlConnection(queue))
+        {
+            connection.Open();
+            using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
+            Assert.Equal(1, drop.ExecuteNonQuery());
+        }
+
+        var status = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue);
+        Assert.Equal(0, status.ExitCode);
+        Assert.Contains("no job        0: missing, and no job of theirs is waiting or running", status.Output);
+        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
+        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
+        {
+            Assert.Equal([0L], document.RootElement.GetProperty("queue").GetProperty("no_job").EnumerateArray().Select(e => e.GetInt64()));
+        }
+
+        var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
+        Assert.Equal(0, again.ExitCode);
+        Assert.Contains("1 queued now, 59 already queued", again.Error);
+        Assert.Contains("1 of those queued now had been queued before", again.Error);
+
+        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        var parts = Path.Combine(temp.Path, "shared", "parts");
+        try
+        {
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+
+        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
+        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+    }
+
+    [SkippableFact]
     public void Submit_NeverPrintsThePassword()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);

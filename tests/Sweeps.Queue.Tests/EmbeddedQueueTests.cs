@@ -36,10 +36,10 @@ public sealed class EmbeddedQueueTests : IDisposable
         var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
         var storage = host.Services.GetRequiredService<JobStorage>();
         var client = host.Services.GetRequiredService<IBackgroundJobClient>();
-        Assert.Equal(10, ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+        Assert.Equal(new ChunkQueue.SubmitCounts(10, 0), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
 
         // Submitting again queues nothing twice.
-        Assert.Equal(0, ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+        Assert.Equal(new ChunkQueue.SubmitCounts(0, 0), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
         await host.StartAsync();
         var deadline = DateTime.UtcNow.AddMinutes(1);
         while (counters.ChunksDone + counters.ChunksFailed < 10 && DateTime.UtcNow < deadline)
@@ -57,6 +57,37 @@ public sealed class EmbeddedQueueTests : IDisposable
         var summary = await RunSummary.ReadAsync(run);
         Assert.Equal(300, summary.PointsDone);
         Assert.True(summary.Periods[1] > 0 && summary.Periods[2] > 0);
+    }
+
+    [Fact]
+    public async Task Submit_QueuesAgain_OnlyTheChunksWhoseJobIsGone()
+    {
+        var run = CreateRun(chunkSize: 32);
+        using var host = QueueHost.Build(new QueueSettings(Workers: 2));
+        var counters = host.Services.GetRequiredService<RunProgress>().For(run.FullPath);
+        var storage = host.Services.GetRequiredService<JobStorage>();
+        var client = host.Services.GetRequiredService<IBackgroundJobClient>();
+        ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks());
+
+        // Two chunks' jobs deleted before any worker ran: the set still says "queued", but nothing would compute them.
+        var jobs = storage.GetMonitoringApi().EnqueuedJobs("default", 0, 100)
+            .ToDictionary(j => Convert.ToInt64(j.Value.Job.Args[1], System.Globalization.CultureInfo.InvariantCulture), j => j.Key);
+        Assert.True(client.Delete(jobs[3]));
+        Assert.True(client.Delete(jobs[7]));
+        Assert.Equal(Enumerable.Range(0, 10).Select(i => (long)i).Except([3L, 7L]), QueueStatus.Read(storage, run.FullPath).Live.Order());
+
+        Assert.Equal(new ChunkQueue.SubmitCounts(2, 2), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+        Assert.Equal(new ChunkQueue.SubmitCounts(0, 0), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+        await host.StartAsync();
+        var deadline = DateTime.UtcNow.AddMinutes(1);
+        while (run.MissingChunks().Count > 0 && DateTime.UtcNow < deadline)
+        {
+            await Task.Delay(20);
+        }
+
+        await host.StopAsync();
+        Assert.Empty(run.MissingChunks());
+        Assert.Equal(0, counters.ChunksFailed);
     }
 
     [Fact]

@@ -61,6 +61,12 @@ internal static class StatusCommand
                 SummaryText.Line(cli.Output, "running", queued.Running.Count == 0 ? "none" : string.Join(", ", queued.Running.Select(r => $"{r.Chunk} on {r.Server}")));
                 SummaryText.Line(cli.Output, "queued", $"{queued.Queued:N0}");
                 SummaryText.Line(cli.Output, "failed", queued.Failed.Count == 0 ? "none" : string.Join("; ", queued.Failed.Select(f => $"{f.Chunk}: {f.Reason}")));
+                var unqueued = summary.MissingChunks.Where(chunk => !queued.Live.Contains(chunk)).ToList();
+                if (unqueued.Count > 0)
+                {
+                    SummaryText.Line(cli.Output, "no job", $"{SummaryText.Chunks(unqueued)}: missing, and no job of theirs is waiting or running; submit the run again to queue them");
+                }
+
                 foreach (var (name, workers, heartbeat) in queued.Hosts)
                 {
                     SummaryText.Line(cli.Output, "host", $"{name} ({workers} workers, heartbeat {heartbeat:u})");

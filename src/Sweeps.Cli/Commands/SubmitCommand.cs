@@ -12,7 +12,8 @@ namespace Sweeps.Cli.Commands;
 
 /// <summary>
 /// <c>sweeps submit CONFIG --queue CONN [--out DIR] [--set …]</c>: create the run directory (on storage
-/// the workers see at the same path) and queue its missing chunks; prints the run id. Safe to repeat.
+/// the workers see at the same path) and queue its missing chunks; prints the run id. Safe to repeat: a chunk is
+/// queued again only when no job of it is left waiting or running (one the queue dropped, or deleted).
 /// </summary>
 internal static class SubmitCommand
 {
@@ -33,7 +34,7 @@ internal static class SubmitCommand
             var setup = SweepSetup.Prepare(parse.GetRequiredValue(config), parse.GetValue(set) ?? [], parse.GetValue(outDir), Environment.ProcessorCount);
             var (run, _) = RunDirectory.CreateOrResume(setup.Directory, setup.Spec, setup.ConfigText, setup.Overrides, setup.ChunkSize, cli.Clock, cleanAbandoned: false);
             var missing = run.MissingChunks();
-            var added = await QueueOptions.Guard(connection, () =>
+            var counts = await QueueOptions.Guard(connection, () =>
             {
                 using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
                 var storage = host.Services.GetRequiredService<JobStorage>();
@@ -41,7 +42,12 @@ internal static class SubmitCommand
             });
             cli.Output.WriteLine(run.FullPath);
             SummaryText.Line(cli.Error, "run", $"{run.FullPath} (spec {run.Manifest.SpecHash[..12]})");
-            SummaryText.Line(cli.Error, "chunks", $"{run.Manifest.ChunkCount:N0}: {run.Manifest.ChunkCount - missing.Count:N0} done, {added:N0} queued now, {missing.Count - added:N0} already queued");
+            SummaryText.Line(cli.Error, "chunks", $"{run.Manifest.ChunkCount:N0}: {run.Manifest.ChunkCount - missing.Count:N0} done, {counts.Queued:N0} queued now, {missing.Count - counts.Queued:N0} already queued");
+            if (counts.Requeued > 0)
+            {
+                SummaryText.Line(cli.Error, "requeued", $"{counts.Requeued:N0} of those queued now had been queued before, but no job of theirs was left waiting or running");
+            }
+
             SummaryText.Line(cli.Error, "queue", ConnectionStrings.Mask(connection));
             return ExitCodes.Success;
         });

@@ -55,6 +55,15 @@ internal static class SummaryJson
                 }
 
                 json.WriteEndArray();
+
+                // Missing chunks no job will compute (never queued, failed, or dropped by the queue): submit again.
+                json.WriteStartArray("no_job");
+                foreach (var chunk in summary.MissingChunks.Where(chunk => !queue.Live.Contains(chunk)))
+                {
+                    json.WriteNumberValue(chunk);
+                }
+
+                json.WriteEndArray();
                 json.WriteStartArray("hosts");
                 foreach (var (name, workers, heartbeat) in queue.Hosts)
                 {

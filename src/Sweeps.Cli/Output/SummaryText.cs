@@ -73,10 +73,11 @@ internal static class SummaryText
             ? "not computed"
             : $"{Numbers.Format(summary.LargestExponentMin)} … {Numbers.Format(summary.LargestExponentMax)}";
 
-    public static string Missing(RunSummary summary) =>
-        summary.MissingChunks.Count == 0
-            ? "none"
-            : string.Join(", ", summary.MissingChunks.Take(12)) + (summary.MissingChunks.Count > 12 ? $", … ({summary.MissingChunks.Count} in all)" : "");
+    public static string Missing(RunSummary summary) => summary.MissingChunks.Count == 0 ? "none" : Chunks(summary.MissingChunks);
+
+    /// <summary>Chunk numbers, the first twelve and how many in all.</summary>
+    public static string Chunks(IReadOnlyList<long> chunks) =>
+        string.Join(", ", chunks.Take(12)) + (chunks.Count > 12 ? $", … ({chunks.Count} in all)" : "");
 
     public static void Line(TextWriter output, string label, string value) => output.WriteLine($"{label,-14}{value}");
 }
