@@ -22,13 +22,27 @@ public static class ChunkQueue
     /// </summary>
     public static SubmitCounts Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing)
     {
+        var (added, again) = Enqueue(storage, client, runDirectory, missing, lostOnly: false);
+        return new SubmitCounts(added.Count, again);
+    }
+
+    /// <summary>
+    /// Enqueues again the missing chunks that were queued before and have no live job left — never a chunk a failure
+    /// took off the queue's list (<see cref="Forget"/>: it waits for the run to be submitted again, so that a failure
+    /// that would repeat is not retried for ever). Returns the chunks queued.
+    /// </summary>
+    public static IReadOnlyList<long> Recover(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing) =>
+        Enqueue(storage, client, runDirectory, missing, lostOnly: true).Added;
+
+    private static (List<long> Added, int Again) Enqueue(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, bool lostOnly)
+    {
         using var connection = storage.GetConnection();
         using var _ = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
         var queued = connection.GetAllItemsFromSet(SetKey(runDirectory));
 
         // Read only when a missing chunk was queued before (never in a fresh embedded run): it lists the queue's jobs.
         HashSet<long>? live = null;
-        var (added, again) = (0, 0);
+        var (added, again) = (new List<long>(), 0);
         foreach (var chunk in missing)
         {
             var item = chunk.ToString(System.Globalization.CultureInfo.InvariantCulture);
@@ -42,15 +56,19 @@ public static class ChunkQueue
 
                 again++;
             }
+            else if (lostOnly)
+            {
+                continue;
+            }
 
             client.Create(JobFor(runDirectory, chunk), new EnqueuedState());
             using var transaction = connection.CreateWriteTransaction();
             transaction.AddToSet(SetKey(runDirectory), item);
             transaction.Commit();
-            added++;
+            added.Add(chunk);
         }
 
-        return new SubmitCounts(added, again);
+        return (added, again);
     }
 
     /// <summary>

@@ -74,6 +74,10 @@ public static class QueueHost
                 options.ServerTimeout = TimeSpan.FromSeconds(30);
                 options.ServerCheckInterval = TimeSpan.FromSeconds(15);
             });
+            if (settings.Connection is not null)
+            {
+                builder.Services.AddHostedService<LostChunkWatch>();
+            }
         }
 
         return builder.Build();

@@ -13,6 +13,14 @@ public sealed class RunProgress
     /// </summary>
     public event Action<string, string>? ChunkFailed;
 
+    /// <summary>
+    /// Raised when this process queued chunks of a run again whose jobs were lost (<see cref="LostChunkWatch"/>), with the
+    /// run directory and the chunks: a worker prints it.
+    /// </summary>
+    public event Action<string, IReadOnlyList<long>>? ChunksRequeued;
+
+    internal void Requeued(string runDirectory, IReadOnlyList<long> chunks) => ChunksRequeued?.Invoke(runDirectory, chunks);
+
     public Counters For(string runDirectory) =>
         runs.GetOrAdd(Path.TrimEndingDirectorySeparator(Path.GetFullPath(runDirectory)), run => new Counters(failure => ChunkFailed?.Invoke(run, failure)));
 

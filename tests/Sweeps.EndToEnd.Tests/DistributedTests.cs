@@ -148,14 +148,8 @@ public sealed class DistributedTests(PostgresFixture postgres)
         var config = temp.Write("stock.toml", Config);
         Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
 
-        // The queue loses chunk 0's job the way a worker gives a job up (its queue row removed, the job left in its
-        // state): nothing would ever compute the chunk, and submitting again used to call it "already queued".
-        using (var connection = new Npgsql.NpgsqlConnection(queue))
-        {
-            connection.Open();
-            using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
-            Assert.Equal(1, drop.ExecuteNonQuery());
-        }
+        // Nothing would ever compute chunk 0 now, and submitting again used to call it "already queued".
+        DropFirstQueuedJob(queue);
 
         var status = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue);
         Assert.Equal(0, status.ExitCode);
@@ -187,6 +181,34 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_JobDroppedFromTheQueue_IsQueuedAgainByTheWorkers()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        DropFirstQueuedJob(queue);
+
+        // Nobody submits again: a worker that has computed chunks of the run looks for lost ones every invisibility
+        // timeout (15 s here) and queues chunk 0 again.
+        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        var parts = Path.Combine(temp.Path, "shared", "parts");
+        try
+        {
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+
+        Assert.Contains(workerLog, line => line.Contains($"requeued: {Path.Combine(temp.Path, "shared")} chunk 0 (queued, but no job", StringComparison.Ordinal));
+        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
+        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+    }
+
+    [SkippableFact]
     public void Submit_NeverPrintsThePassword()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
@@ -203,6 +225,17 @@ public sealed class DistributedTests(PostgresFixture postgres)
         Assert.Equal(1, unreachable.ExitCode);
         Assert.DoesNotContain("hunter2-secret", unreachable.Output + unreachable.Error);
         Assert.Contains("cannot use the queue at", unreachable.Error);
+    }
+
+    /// <summary>
+    /// The queue loses chunk 0's job the way a worker gives a job up: its queue row removed, the job left in its state.
+    /// </summary>
+    private static void DropFirstQueuedJob(string queue)
+    {
+        using var connection = new Npgsql.NpgsqlConnection(queue);
+        connection.Open();
+        using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
+        Assert.Equal(1, drop.ExecuteNonQuery());
     }
 
     // What the workers print, read as it comes: an unread pipe fills up and stalls the worker writing to it.

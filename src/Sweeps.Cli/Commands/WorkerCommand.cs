@@ -1,6 +1,7 @@
 using System.CommandLine;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Hosting;
+using Sweeps.Cli.Output;
 using Sweeps.Engine.Config;
 using Sweeps.Queue;
 
@@ -10,7 +11,8 @@ namespace Sweeps.Cli.Commands;
 /// <c>sweeps worker --queue CONN [--workers N] [--invisibility SECONDS]</c>: serve chunk jobs of any run
 /// until stopped. On SIGTERM or Ctrl-C the current chunks are cancelled (they leave no part) and go back
 /// to the queue; a worker that dies instead stops heart-beating and its chunks are re-run by another
-/// worker once the invisibility timeout has passed.
+/// worker once the invisibility timeout has passed. Once every invisibility timeout, a worker also queues again the
+/// chunks of the runs it has worked on that were queued but whose jobs were lost (printed as <c>requeued:</c>).
 /// </summary>
 internal static class WorkerCommand
 {
@@ -40,14 +42,10 @@ internal static class WorkerCommand
             return await QueueOptions.Guard(connection, async () =>
             {
                 using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)));
-                host.Services.GetRequiredService<RunProgress>().ChunkFailed += (run, failure) =>
-                {
-                    lock (cli.Error)
-                    {
-                        cli.Error.WriteLine($"failed: {run} {failure}");
-                        cli.Error.Flush();
-                    }
-                };
+                var progress = host.Services.GetRequiredService<RunProgress>();
+                progress.ChunkFailed += (run, failure) => Report($"failed: {run} {failure}");
+                progress.ChunksRequeued += (run, chunks) =>
+                    Report($"requeued: {run} chunk{(chunks.Count == 1 ? "" : "s")} {SummaryText.Chunks(chunks)} (queued, but no job of theirs was left waiting or running)");
                 await host.StartAsync(CancellationToken.None);
                 cli.Output.WriteLine($"worker {Environment.MachineName}:{Environment.ProcessId} serving {ConnectionStrings.Mask(connection)} with {count} thread{(count == 1 ? "" : "s")}");
                 cli.Output.Flush();
@@ -65,5 +63,14 @@ internal static class WorkerCommand
             });
         });
         return command;
+
+        void Report(string line)
+        {
+            lock (cli.Error)
+            {
+                cli.Error.WriteLine(line);
+                cli.Error.Flush();
+            }
+        }
     }
 }
