@@ -20,9 +20,12 @@ public static class ChunkQueue
     /// Enqueues the missing chunks that have no live job (<see cref="QueueStatus.LiveChunks"/>); returns how many were
     /// queued, and how many of those had been queued before.
     /// </summary>
-    public static SubmitCounts Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing)
+    /// <param name="stillMissing">Whether a chunk's part is still missing, asked again before a chunk that was queued
+    /// before is queued again: a job that finished after <paramref name="missing"/> was listed is not live any more,
+    /// but its part exists.</param>
+    public static SubmitCounts Submit(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool>? stillMissing = null)
     {
-        var (added, again) = Enqueue(storage, client, runDirectory, missing, lostOnly: false);
+        var (added, again) = Enqueue(storage, client, runDirectory, missing, stillMissing, lostOnly: false);
         return new SubmitCounts(added.Count, again);
     }
 
@@ -31,10 +34,11 @@ public static class ChunkQueue
     /// took off the queue's list (<see cref="Forget"/>: it waits for the run to be submitted again, so that a failure
     /// that would repeat is not retried for ever). Returns the chunks queued.
     /// </summary>
-    public static IReadOnlyList<long> Recover(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing) =>
-        Enqueue(storage, client, runDirectory, missing, lostOnly: true).Added;
+    public static IReadOnlyList<long> Recover(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool> stillMissing) =>
+        Enqueue(storage, client, runDirectory, missing, stillMissing, lostOnly: true).Added;
 
-    private static (List<long> Added, int Again) Enqueue(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, bool lostOnly)
+    private static (List<long> Added, int Again) Enqueue(
+        JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool>? stillMissing, bool lostOnly)
     {
         using var connection = storage.GetConnection();
         using var _ = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
@@ -49,7 +53,7 @@ public static class ChunkQueue
             if (queued.Contains(item))
             {
                 live ??= QueueStatus.LiveChunks(storage.GetMonitoringApi(), runDirectory);
-                if (live.Contains(chunk))
+                if (live.Contains(chunk) || stillMissing?.Invoke(chunk) == false)
                 {
                     continue;
                 }

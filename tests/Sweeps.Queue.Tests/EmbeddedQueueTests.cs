@@ -76,7 +76,9 @@ public sealed class EmbeddedQueueTests : IDisposable
         Assert.True(client.Delete(jobs[7]));
         Assert.Equal(Enumerable.Range(0, 10).Select(i => (long)i).Except([3L, 7L]), QueueStatus.Read(storage, run.FullPath).Live.Order());
 
-        Assert.Equal(new ChunkQueue.SubmitCounts(2, 2), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
+        // A chunk whose part turns up between the listing of the missing chunks and the look at the queue is left alone.
+        Assert.Equal(new ChunkQueue.SubmitCounts(1, 1), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks(), chunk => chunk != 7));
+        Assert.Equal(new ChunkQueue.SubmitCounts(1, 1), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
         Assert.Equal(new ChunkQueue.SubmitCounts(0, 0), ChunkQueue.Submit(storage, client, run.FullPath, run.MissingChunks()));
         await host.StartAsync();
         var deadline = DateTime.UtcNow.AddMinutes(1);

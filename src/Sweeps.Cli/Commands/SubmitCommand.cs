@@ -38,7 +38,7 @@ internal static class SubmitCommand
             {
                 using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
                 var storage = host.Services.GetRequiredService<JobStorage>();
-                return Task.FromResult(ChunkQueue.Submit(storage, host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing));
+                return Task.FromResult(ChunkQueue.Submit(storage, host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing, chunk => !File.Exists(run.PartPath(chunk))));
             });
             cli.Output.WriteLine(run.FullPath);
             SummaryText.Line(cli.Error, "run", $"{run.FullPath} (spec {run.Manifest.SpecHash[..12]})");
