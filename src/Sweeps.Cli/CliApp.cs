@@ -26,6 +26,7 @@ internal static class CliApp
         root.Subcommands.Add(SubmitCommand.Create(cli));
         root.Subcommands.Add(WorkerCommand.Create(cli));
         root.Subcommands.Add(StatusCommand.Create(cli));
+        root.Subcommands.Add(CancelCommand.Create(cli));
         root.Subcommands.Add(InspectCommand.Create(cli));
         root.Subcommands.Add(RefineCommand.Create(cli));
         root.Subcommands.Add(MapCommand.Create(cli));

@@ -102,6 +102,46 @@ public static class ChunkQueue
     private static readonly System.Reflection.MethodInfo RunMethod =
         typeof(ChunkJob).GetMethod(nameof(ChunkJob.RunAsync), [typeof(string), typeof(long), typeof(CancellationToken)])!;
 
+    /// <summary>
+    /// Withdraws a run from the queue: its waiting jobs are deleted (a worker that fetches one drops it), its running
+    /// ones too (Hangfire cancels a job whose state left processing within seconds: the chunk leaves no part), and the
+    /// queue forgets its chunks, so that no worker queues them again. Parts already written stay; submitting the run
+    /// again queues what is missing. Returns the jobs deleted: waiting, and running.
+    /// </summary>
+    public static (int Waiting, int Running) Withdraw(JobStorage storage, IBackgroundJobClient client, string runDirectory)
+    {
+        using var connection = storage.GetConnection();
+        using var held = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
+        var (waiting, running) = (0, 0);
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var (id, _, state, server) in QueueStatus.Jobs(storage.GetMonitoringApi(), runDirectory).ToList())
+        {
+            if (!QueueStatus.Pending(state) || !seen.Add(id) || !client.Delete(id))
+            {
+                continue;
+            }
+
+            if (server is null && !string.Equals(state, ProcessingState.StateName, StringComparison.OrdinalIgnoreCase))
+            {
+                waiting++;
+            }
+            else
+            {
+                running++;
+            }
+        }
+
+        var queued = connection.GetAllItemsFromSet(SetKey(runDirectory));
+        using var transaction = connection.CreateWriteTransaction();
+        foreach (var item in queued)
+        {
+            transaction.RemoveFromSet(SetKey(runDirectory), item);
+        }
+
+        transaction.Commit();
+        return (waiting, running);
+    }
+
     /// <summary>What <see cref="Submit"/> did: chunks queued, and how many of those were queued before but had no live job.</summary>
     public readonly record struct SubmitCounts(int Queued, int Requeued);
 

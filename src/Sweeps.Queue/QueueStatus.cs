@@ -27,7 +27,7 @@ public sealed record QueueStatus(
         var queued = 0L;
         foreach (var queue in monitoring.Queues())
         {
-            queued += monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length)).Count(j => Ours(j.Value.Job));
+            queued += monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length)).Count(j => Ours(j.Value.Job) && Pending(j.Value.State));
         }
 
         var failed = monitoring.FailedJobs(0, (int)Math.Min(int.MaxValue, statistics.Failed))
@@ -47,29 +47,54 @@ public sealed record QueueStatus(
     /// </summary>
     public static HashSet<long> LiveChunks(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
     {
+        var alive = monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal);
+        return Jobs(monitoring, runDirectory)
+            .Where(j => j.Server is null ? Pending(j.State) : alive.Contains(j.Server))
+            .Select(j => j.Chunk)
+            .ToHashSet();
+    }
+
+    /// <summary>
+    /// The run's jobs the queue lists: those in a queue (waiting or fetched; <c>Server</c> null) and those processing
+    /// (with their server), in that order; a job can be listed twice.
+    /// </summary>
+    internal static IEnumerable<(string Id, long Chunk, string? State, string? Server)> Jobs(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
+    {
         bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
-        static bool Pending(string? state) =>
-            string.Equals(state, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase) || string.Equals(state, ProcessingState.StateName, StringComparison.OrdinalIgnoreCase);
-        var live = new HashSet<long>();
         foreach (var queue in monitoring.Queues())
         {
-            live.UnionWith(monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length))
-                .Where(j => Ours(j.Value.Job) && Pending(j.Value.State))
-                .Select(j => ChunkOf(j.Value.Job)));
+            foreach (var (id, job) in monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length)))
+            {
+                if (Ours(job.Job))
+                {
+                    yield return (id, ChunkOf(job.Job), job.State, null);
+                }
+            }
+
             if (queue.Fetched is > 0 and var fetched)
             {
-                live.UnionWith(monitoring.FetchedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, fetched))
-                    .Where(j => Ours(j.Value.Job) && Pending(j.Value.State))
-                    .Select(j => ChunkOf(j.Value.Job)));
+                foreach (var (id, job) in monitoring.FetchedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, fetched)))
+                {
+                    if (Ours(job.Job))
+                    {
+                        yield return (id, ChunkOf(job.Job), job.State, null);
+                    }
+                }
             }
         }
 
-        var alive = monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal);
-        live.UnionWith(monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, monitoring.GetStatistics().Processing))
-            .Where(j => Ours(j.Value.Job) && j.Value.ServerId is { } server && alive.Contains(server))
-            .Select(j => ChunkOf(j.Value.Job)));
-        return live;
+        foreach (var (id, job) in monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, monitoring.GetStatistics().Processing)))
+        {
+            if (Ours(job.Job))
+            {
+                yield return (id, ChunkOf(job.Job), ProcessingState.StateName, job.ServerId ?? "?");
+            }
+        }
     }
+
+    /// <summary>Whether a job in this state will still be performed (or is being performed).</summary>
+    internal static bool Pending(string? state) =>
+        string.Equals(state, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase) || string.Equals(state, ProcessingState.StateName, StringComparison.OrdinalIgnoreCase);
 
     private static long ChunkOf(Hangfire.Common.Job job) => Convert.ToInt64(job.Args[1], System.Globalization.CultureInfo.InvariantCulture);
 }

@@ -209,6 +209,42 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_CancelledRun_IsNotComputed_UntilSubmittedAgain()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+
+        var cancel = SweepsProcess.Run(temp.Path, "cancel", "shared", "--queue", queue);
+        Assert.Equal(0, cancel.ExitCode);
+        Assert.Contains("60 waiting jobs deleted, 0 running jobs told to stop", cancel.Output);
+        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
+        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
+        {
+            var status = document.RootElement.GetProperty("queue");
+            Assert.Equal(0, status.GetProperty("queued").GetInt64());
+            Assert.Equal(60, status.GetProperty("no_job").GetArrayLength());
+        }
+
+        // A worker takes the deleted jobs off the queue without computing them.
+        var worker = StartWorker(temp.Path, queue);
+        try
+        {
+            WaitFor(() => QueueRows(queue) == 0, TimeSpan.FromMinutes(1), () => $"{QueueRows(queue)} jobs still queued");
+        }
+        finally
+        {
+            StopAll([worker]);
+        }
+
+        Assert.Empty(Directory.GetFiles(Path.Combine(temp.Path, "shared", "parts"), "*.parquet"));
+        var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
+        Assert.Contains("60 queued now, 0 already queued", again.Error);
+    }
+
+    [SkippableFact]
     public void Submit_NeverPrintsThePassword()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
@@ -236,6 +272,14 @@ public sealed class DistributedTests(PostgresFixture postgres)
         connection.Open();
         using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
         Assert.Equal(1, drop.ExecuteNonQuery());
+    }
+
+    private static long QueueRows(string queue)
+    {
+        using var connection = new Npgsql.NpgsqlConnection(queue);
+        connection.Open();
+        using var count = new Npgsql.NpgsqlCommand("SELECT count(*) FROM sweeps.jobqueue", connection);
+        return (long)count.ExecuteScalar()!;
     }
 
     // What the workers print, read as it comes: an unread pipe fills up and stalls the worker writing to it.
