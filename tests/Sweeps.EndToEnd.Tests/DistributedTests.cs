@@ -242,6 +242,9 @@ public sealed class DistributedTests(PostgresFixture postgres)
         Assert.Empty(Directory.GetFiles(Path.Combine(temp.Path, "shared", "parts"), "*.parquet"));
         var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
         Assert.Contains("60 queued now, 0 already queued", again.Error);
+
+        // Forgotten by the queue: queued anew, not as lost jobs (which a worker would have queued again by itself).
+        Assert.DoesNotContain("had been queued before", again.Error);
     }
 
     [SkippableFact]
