@@ -325,6 +325,8 @@ public sealed class DistributedTests(PostgresFixture postgres)
                 worker.Kill();
             }
 
+            // The wait without a timeout also waits for the last lines to reach the output handlers.
+            worker.WaitForExit();
             worker.Dispose();
         }
     }
