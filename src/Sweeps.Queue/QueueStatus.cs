@@ -61,9 +61,13 @@ public sealed record QueueStatus(
     internal static IEnumerable<(string Id, long Chunk, string? State, string? Server)> Jobs(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
     {
         bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
-        foreach (var queue in monitoring.Queues())
+
+        // The default queue, where chunk jobs go, is always looked at, whatever the storage lists as its queues.
+        foreach (var queue in monitoring.Queues().Select(q => q.Name).Append(EnqueuedState.DefaultQueue).Distinct(StringComparer.Ordinal))
         {
-            foreach (var (id, job) in monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length)))
+            var waiting = monitoring.EnqueuedCount(queue);
+            IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.EnqueuedJobDto>> listed = waiting > 0 ? monitoring.EnqueuedJobs(queue, 0, (int)Math.Min(int.MaxValue, waiting)) : [];
+            foreach (var (id, job) in listed)
             {
                 if (Ours(job.Job))
                 {
@@ -71,14 +75,13 @@ public sealed record QueueStatus(
                 }
             }
 
-            if (queue.Fetched is > 0 and var fetched)
+            var fetched = monitoring.FetchedCount(queue);
+            IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> held = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
+            foreach (var (id, job) in held)
             {
-                foreach (var (id, job) in monitoring.FetchedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, fetched)))
+                if (Ours(job.Job))
                 {
-                    if (Ours(job.Job))
-                    {
-                        yield return (id, ChunkOf(job.Job), job.State, null);
-                    }
+                    yield return (id, ChunkOf(job.Job), job.State, null);
                 }
             }
         }

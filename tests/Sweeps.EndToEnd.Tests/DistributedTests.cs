@@ -181,6 +181,34 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_FetchedJobs_AreLive()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+
+        // Every job held by a worker (fetched, as workers whose servers are gone leave them until the invisibility
+        // timeout hands them out again): none waits in the queue, yet every chunk will be computed.
+        using (var connection = new Npgsql.NpgsqlConnection(queue))
+        {
+            connection.Open();
+            using var fetch = new Npgsql.NpgsqlCommand("UPDATE sweeps.jobqueue SET fetchedat = now()", connection);
+            Assert.Equal(60, fetch.ExecuteNonQuery());
+        }
+
+        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
+        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
+        {
+            Assert.Equal(0, document.RootElement.GetProperty("queue").GetProperty("no_job").GetArrayLength());
+        }
+
+        var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
+        Assert.Contains("0 queued now, 60 already queued", again.Error);
+    }
+
+    [SkippableFact]
     public void PostgreSql_JobDroppedFromTheQueue_IsQueuedAgainByTheWorkers()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
