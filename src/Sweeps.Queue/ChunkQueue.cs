@@ -52,7 +52,7 @@ public static class ChunkQueue
             var item = chunk.ToString(System.Globalization.CultureInfo.InvariantCulture);
             if (queued.Contains(item))
             {
-                live ??= QueueStatus.LiveChunks(storage.GetMonitoringApi(), runDirectory);
+                live ??= QueueStatus.LiveChunks(storage, runDirectory);
                 if (live.Contains(chunk) || stillMissing?.Invoke(chunk) == false)
                 {
                     continue;

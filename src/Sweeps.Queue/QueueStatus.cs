@@ -35,21 +35,26 @@ public sealed record QueueStatus(
             .Select(j => (ChunkOf(j.Value.Job), j.Value.ExceptionMessage ?? j.Value.Reason ?? "failed"))
             .ToList();
         var hosts = monitoring.Servers().Select(s => (s.Name, s.WorkersCount, s.Heartbeat)).ToList();
-        return new QueueStatus(running, queued, failed, hosts, LiveChunks(monitoring, runDirectory));
+        return new QueueStatus(running, queued, failed, hosts, LiveChunks(storage, runDirectory));
     }
 
     /// <summary>
     /// The run's chunks that a job will still compute: a job of the chunk waiting in a queue or fetched from one (a
     /// worker holds it; if the worker dies, the job comes back after the invisibility timeout), in the enqueued or
-    /// processing state, or processing on a server that is still alive. A job the queue dropped, a deleted one and a
+    /// processing state. On PostgreSQL a job keeps its queue entry until it is done, so a job processing without one
+    /// will never finish (its worker gave it up); the in-memory queue takes a job out as a worker fetches it, so there
+    /// a job processing on a server that is still alive is live too. A job the queue dropped, a deleted one and a
     /// finished one (whose part was removed since) are not live: their chunks are missing for good unless queued again.
     /// The listings are read in that order, so that a job moving on between two of them is seen in the later one.
     /// </summary>
-    public static HashSet<long> LiveChunks(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
+    public static HashSet<long> LiveChunks(JobStorage storage, string runDirectory)
     {
-        var alive = monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal);
+        var monitoring = storage.GetMonitoringApi();
+        HashSet<string>? alive = storage is Hangfire.InMemory.InMemoryStorage
+            ? monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal)
+            : null;
         return Jobs(monitoring, runDirectory)
-            .Where(j => j.Server is null ? Pending(j.State) : alive.Contains(j.Server))
+            .Where(j => j.Server is null ? Pending(j.State) : alive?.Contains(j.Server) == true)
             .Select(j => j.Chunk)
             .ToHashSet();
     }

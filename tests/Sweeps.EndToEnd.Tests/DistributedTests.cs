@@ -50,7 +50,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
             workers[0].WaitForExit();
             // The killed worker's chunk comes back after the invisibility timeout, and a lock it held expires after the
             // distributed-lock timeout (30 s each); on a loaded machine the survivors' retries back off further.
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
         }
         finally
         {
@@ -92,7 +92,8 @@ public sealed class DistributedTests(PostgresFixture postgres)
             WaitFor(
                 () => Directory.GetFiles(Path.Combine(temp.Path, "one", "parts"), "*.parquet").Length == 60
                     && Directory.GetFiles(Path.Combine(temp.Path, "two", "parts"), "*.parquet").Length == 60,
-                TimeSpan.FromMinutes(3));
+                TimeSpan.FromMinutes(3),
+                () => QueueDump(queue));
         }
         finally
         {
@@ -126,7 +127,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
             postgres.Outage(TimeSpan.FromSeconds(3));
             // The killed worker's chunk comes back after the invisibility timeout, and a lock it held expires after the
             // distributed-lock timeout (30 s each); on a loaded machine the survivors' retries back off further.
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(6), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
         }
         finally
         {
@@ -169,7 +170,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
         var parts = Path.Combine(temp.Path, "shared", "parts");
         try
         {
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
         }
         finally
         {
@@ -209,6 +210,42 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_JobProcessingWithoutItsQueueEntry_IsLost()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+
+        // Chunk 0's job marked processing on a server that is alive, but its queue entry gone: on PostgreSQL a job keeps
+        // its entry until it is done, so no worker is computing it and none ever will.
+        using (var connection = new Npgsql.NpgsqlConnection(queue))
+        {
+            connection.Open();
+            using var ghost = new Npgsql.NpgsqlCommand(
+                """
+                INSERT INTO sweeps.server (id, data, lastheartbeat)
+                    VALUES ('ghost:1', '{"WorkerCount":1,"Queues":["default"],"StartedAt":"2026-12-03T06:00:00Z"}', now());
+                WITH first AS (SELECT jobid FROM sweeps.jobqueue ORDER BY id LIMIT 1),
+                     processing AS (INSERT INTO sweeps.state (jobid, name, createdat, data)
+                         SELECT jobid, 'Processing', now(), '{"StartedAt":"1796278214973","ServerId":"ghost:1","WorkerId":"w1"}' FROM first RETURNING id, jobid)
+                UPDATE sweeps.job SET statename = 'Processing', stateid = processing.id FROM processing WHERE job.id = processing.jobid;
+                DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue);
+                """,
+                connection);
+            ghost.ExecuteNonQuery();
+        }
+
+        var status = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue);
+        Assert.True(status.ExitCode == 0, status.Error);
+        Assert.Contains("0 on ghost:1", status.Output);
+        Assert.Contains("no job        0: missing", status.Output);
+        var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
+        Assert.Contains("1 queued now, 59 already queued", again.Error);
+    }
+
+    [SkippableFact]
     public void PostgreSql_JobDroppedFromTheQueue_IsQueuedAgainByTheWorkers()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
@@ -224,7 +261,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
         var parts = Path.Combine(temp.Path, "shared", "parts");
         try
         {
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts");
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
         }
         finally
         {
@@ -303,6 +340,42 @@ public sealed class DistributedTests(PostgresFixture postgres)
         connection.Open();
         using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
         Assert.Equal(1, drop.ExecuteNonQuery());
+    }
+
+    /// <summary>For a failure message: the jobs not done (state, queue row, fetched when) and the servers' heartbeats.</summary>
+    private static string QueueDump(string queue)
+    {
+        try
+        {
+            using var connection = new Npgsql.NpgsqlConnection(queue);
+            connection.Open();
+            var lines = new List<string>();
+            using (var jobs = new Npgsql.NpgsqlCommand(
+                "SELECT j.id, j.statename, j.arguments, q.id, q.fetchedat FROM sweeps.job j LEFT JOIN sweeps.jobqueue q ON q.jobid = j.id "
+                + "WHERE j.statename IS DISTINCT FROM 'Succeeded' ORDER BY j.id LIMIT 20", connection))
+            using (var reader = jobs.ExecuteReader())
+            {
+                while (reader.Read())
+                {
+                    lines.Add($"job {reader.GetValue(0)} {reader.GetValue(1)} {reader.GetValue(2)} row {reader.GetValue(3)} fetched {reader.GetValue(4)}");
+                }
+            }
+
+            using (var servers = new Npgsql.NpgsqlCommand("SELECT id, lastheartbeat FROM sweeps.server", connection))
+            using (var reader = servers.ExecuteReader())
+            {
+                while (reader.Read())
+                {
+                    lines.Add($"server {reader.GetValue(0)} heartbeat {reader.GetValue(1)}");
+                }
+            }
+
+            return $"now {DateTime.UtcNow:O}\n" + string.Join("\n", lines);
+        }
+        catch (Npgsql.NpgsqlException error)
+        {
+            return "queue unreadable: " + error.Message;
+        }
     }
 
     private static long QueueRows(string queue)
