@@ -41,7 +41,7 @@ public static class ChunkQueue
         JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool>? stillMissing, bool lostOnly)
     {
         using var connection = storage.GetConnection();
-        using var _ = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
+        using var _ = LockRun(connection, runDirectory);
         var queued = connection.GetAllItemsFromSet(SetKey(runDirectory));
 
         // Read only when a missing chunk was queued before (never in a fresh embedded run): it lists the queue's jobs.
@@ -111,10 +111,10 @@ public static class ChunkQueue
     public static (int Waiting, int Running) Withdraw(JobStorage storage, IBackgroundJobClient client, string runDirectory)
     {
         using var connection = storage.GetConnection();
-        using var held = connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
+        using var held = LockRun(connection, runDirectory);
         var (waiting, running) = (0, 0);
         var seen = new HashSet<string>(StringComparer.Ordinal);
-        foreach (var (id, _, state, server) in QueueStatus.Jobs(storage.GetMonitoringApi(), runDirectory).ToList())
+        foreach (var (id, _, state, server, _) in QueueStatus.Jobs(storage.GetMonitoringApi(), runDirectory).ToList())
         {
             if (!QueueStatus.Pending(state) || !seen.Add(id) || !client.Delete(id))
             {
@@ -141,6 +141,10 @@ public static class ChunkQueue
         transaction.Commit();
         return (waiting, running);
     }
+
+    /// <summary>The lock under which a run's chunks are queued, queued again or withdrawn, from any host.</summary>
+    private static IDisposable LockRun(IStorageConnection connection, string runDirectory) =>
+        connection.AcquireDistributedLock($"sweeps:submit:{runDirectory}", TimeSpan.FromSeconds(30));
 
     /// <summary>What <see cref="Submit"/> did: chunks queued, and how many of those were queued before but had no live job.</summary>
     public readonly record struct SubmitCounts(int Queued, int Requeued);

@@ -35,7 +35,7 @@ internal sealed class LostChunkWatch(RunContexts contexts, RunProgress progress,
         try
         {
             var missing = run.MissingChunks();
-            if (missing.Count > 0 && ChunkQueue.Recover(storage, client, queued, missing, chunk => !File.Exists(run.PartPath(chunk))) is { Count: > 0 } recovered)
+            if (missing.Count > 0 && ChunkQueue.Recover(storage, client, queued, missing, chunk => !run.IsDone(chunk)) is { Count: > 0 } recovered)
             {
                 progress.Requeued(queued, recovered);
             }

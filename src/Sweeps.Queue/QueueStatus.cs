@@ -17,26 +17,19 @@ public sealed record QueueStatus(
     public static QueueStatus Read(JobStorage storage, string runDirectory)
     {
         var monitoring = storage.GetMonitoringApi();
-        var statistics = monitoring.GetStatistics();
-        bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
-
-        var running = monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, statistics.Processing))
-            .Where(j => Ours(j.Value.Job))
-            .Select(j => (ChunkOf(j.Value.Job), j.Value.ServerId ?? "?"))
-            .ToList();
-        var queued = 0L;
-        foreach (var queue in monitoring.Queues())
-        {
-            queued += monitoring.EnqueuedJobs(queue.Name, 0, (int)Math.Min(int.MaxValue, queue.Length)).Count(j => Ours(j.Value.Job) && Pending(j.Value.State));
-        }
-
-        var failed = monitoring.FailedJobs(0, (int)Math.Min(int.MaxValue, statistics.Failed))
-            .Where(j => Ours(j.Value.Job))
+        var jobs = Jobs(monitoring, runDirectory).ToList();
+        var running = jobs.Where(j => j.Server is not null).Select(j => (j.Chunk, j.Server!)).ToList();
+        var queued = jobs.LongCount(j => j.Waiting && Pending(j.State));
+        var failed = monitoring.FailedJobs(0, (int)Math.Min(int.MaxValue, monitoring.GetStatistics().Failed))
+            .Where(j => Ours(j.Value.Job, runDirectory))
             .Select(j => (ChunkOf(j.Value.Job), j.Value.ExceptionMessage ?? j.Value.Reason ?? "failed"))
             .ToList();
         var hosts = monitoring.Servers().Select(s => (s.Name, s.WorkersCount, s.Heartbeat)).ToList();
-        return new QueueStatus(running, queued, failed, hosts, LiveChunks(storage, runDirectory));
+        return new QueueStatus(running, queued, failed, hosts, LiveOf(storage, jobs));
     }
+
+    /// <summary>Of <paramref name="missing"/> chunks, those no job will compute (never queued, failed, or lost).</summary>
+    public IReadOnlyList<long> Unqueued(IReadOnlyList<long> missing) => missing.Where(chunk => !Live.Contains(chunk)).ToList();
 
     /// <summary>
     /// The run's chunks that a job will still compute: a job of the chunk waiting in a queue or fetched from one (a
@@ -47,26 +40,26 @@ public sealed record QueueStatus(
     /// finished one (whose part was removed since) are not live: their chunks are missing for good unless queued again.
     /// The listings are read in that order, so that a job moving on between two of them is seen in the later one.
     /// </summary>
-    public static HashSet<long> LiveChunks(JobStorage storage, string runDirectory)
+    public static HashSet<long> LiveChunks(JobStorage storage, string runDirectory) =>
+        LiveOf(storage, Jobs(storage.GetMonitoringApi(), runDirectory));
+
+    private static HashSet<long> LiveOf(JobStorage storage, IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> jobs)
     {
-        var monitoring = storage.GetMonitoringApi();
         HashSet<string>? alive = storage is Hangfire.InMemory.InMemoryStorage
-            ? monitoring.Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal)
+            ? storage.GetMonitoringApi().Servers().Select(s => s.Name).ToHashSet(StringComparer.Ordinal)
             : null;
-        return Jobs(monitoring, runDirectory)
+        return jobs
             .Where(j => j.Server is null ? Pending(j.State) : alive?.Contains(j.Server) == true)
             .Select(j => j.Chunk)
             .ToHashSet();
     }
 
     /// <summary>
-    /// The run's jobs the queue lists: those in a queue (waiting or fetched; <c>Server</c> null) and those processing
-    /// (with their server), in that order; a job can be listed twice.
+    /// The run's jobs the queue lists: those in a queue (waiting, or fetched by a worker; <c>Server</c> null) and those
+    /// processing (with their server), in that order; a job can be listed twice.
     /// </summary>
-    internal static IEnumerable<(string Id, long Chunk, string? State, string? Server)> Jobs(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
+    internal static IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> Jobs(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
     {
-        bool Ours(Hangfire.Common.Job? job) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
-
         // The default queue, where chunk jobs go, is always looked at, whatever the storage lists as its queues.
         foreach (var queue in monitoring.Queues().Select(q => q.Name).Append(EnqueuedState.DefaultQueue).Distinct(StringComparer.Ordinal))
         {
@@ -74,9 +67,9 @@ public sealed record QueueStatus(
             IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.EnqueuedJobDto>> listed = waiting > 0 ? monitoring.EnqueuedJobs(queue, 0, (int)Math.Min(int.MaxValue, waiting)) : [];
             foreach (var (id, job) in listed)
             {
-                if (Ours(job.Job))
+                if (Ours(job.Job, runDirectory))
                 {
-                    yield return (id, ChunkOf(job.Job), job.State, null);
+                    yield return (id, ChunkOf(job.Job), job.State, null, true);
                 }
             }
 
@@ -84,18 +77,18 @@ public sealed record QueueStatus(
             IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> held = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
             foreach (var (id, job) in held)
             {
-                if (Ours(job.Job))
+                if (Ours(job.Job, runDirectory))
                 {
-                    yield return (id, ChunkOf(job.Job), job.State, null);
+                    yield return (id, ChunkOf(job.Job), job.State, null, false);
                 }
             }
         }
 
         foreach (var (id, job) in monitoring.ProcessingJobs(0, (int)Math.Min(int.MaxValue, monitoring.GetStatistics().Processing)))
         {
-            if (Ours(job.Job))
+            if (Ours(job.Job, runDirectory))
             {
-                yield return (id, ChunkOf(job.Job), ProcessingState.StateName, job.ServerId ?? "?");
+                yield return (id, ChunkOf(job.Job), ProcessingState.StateName, job.ServerId ?? "?", false);
             }
         }
     }
@@ -103,6 +96,8 @@ public sealed record QueueStatus(
     /// <summary>Whether a job in this state will still be performed (or is being performed).</summary>
     internal static bool Pending(string? state) =>
         string.Equals(state, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase) || string.Equals(state, ProcessingState.StateName, StringComparison.OrdinalIgnoreCase);
+
+    private static bool Ours(Hangfire.Common.Job? job, string runDirectory) => job?.Args.Count >= 2 && job.Args[0] as string == runDirectory;
 
     private static long ChunkOf(Hangfire.Common.Job job) => Convert.ToInt64(job.Args[1], System.Globalization.CultureInfo.InvariantCulture);
 }

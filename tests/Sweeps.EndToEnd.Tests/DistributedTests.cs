@@ -36,9 +36,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
         var workers = Enumerable.Range(0, 3).Select(_ => StartWorker(temp.Path, queue)).ToList();
         try
         {
@@ -116,9 +114,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
         var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
         var parts = Path.Combine(temp.Path, "shared", "parts");
         try
@@ -134,8 +130,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
             StopAll(workers);
         }
 
-        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
-        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        var shared = ReadEveryPoint(temp);
         Assert.Equal(0, SweepsProcess.Run(temp.Path, "run", config, "--out", "embedded").ExitCode);
         Assert.Equal(IndependentReader.ReadRun(Path.Combine(temp.Path, "embedded")).Hash(), shared.Hash());
     }
@@ -145,9 +140,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
 
         // Nothing would ever compute chunk 0 now, and submitting again used to call it "already queued".
         DropFirstQueuedJob(queue);
@@ -155,30 +148,16 @@ public sealed class DistributedTests(PostgresFixture postgres)
         var status = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue);
         Assert.Equal(0, status.ExitCode);
         Assert.Contains("no job        0: missing, and no job of theirs is waiting or running", status.Output);
-        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
-        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
-        {
-            Assert.Equal([0L], document.RootElement.GetProperty("queue").GetProperty("no_job").EnumerateArray().Select(e => e.GetInt64()));
-        }
+        Assert.Equal([0L], QueueJson(temp, queue).GetProperty("no_job").EnumerateArray().Select(e => e.GetInt64()));
 
         var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
         Assert.Equal(0, again.ExitCode);
         Assert.Contains("1 queued now, 59 already queued", again.Error);
         Assert.Contains("1 of those queued now had been queued before", again.Error);
 
-        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
-        var parts = Path.Combine(temp.Path, "shared", "parts");
-        try
-        {
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
-        }
-        finally
-        {
-            StopAll(workers);
-        }
+        ComputeShared(temp, queue);
 
-        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
-        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        ReadEveryPoint(temp);
     }
 
     [SkippableFact]
@@ -186,24 +165,13 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
 
         // Every job held by a worker (fetched, as workers whose servers are gone leave them until the invisibility
         // timeout hands them out again): none waits in the queue, yet every chunk will be computed.
-        using (var connection = new Npgsql.NpgsqlConnection(queue))
-        {
-            connection.Open();
-            using var fetch = new Npgsql.NpgsqlCommand("UPDATE sweeps.jobqueue SET fetchedat = now()", connection);
-            Assert.Equal(60, fetch.ExecuteNonQuery());
-        }
+        Assert.Equal(60, Sql(queue, "UPDATE sweeps.jobqueue SET fetchedat = now()"));
 
-        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
-        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
-        {
-            Assert.Equal(0, document.RootElement.GetProperty("queue").GetProperty("no_job").GetArrayLength());
-        }
+        Assert.Equal(0, QueueJson(temp, queue).GetProperty("no_job").GetArrayLength());
 
         var again = SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared");
         Assert.Contains("0 queued now, 60 already queued", again.Error);
@@ -214,28 +182,21 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
 
         // Chunk 0's job marked processing on a server that is alive, but its queue entry gone: on PostgreSQL a job keeps
         // its entry until it is done, so no worker is computing it and none ever will.
-        using (var connection = new Npgsql.NpgsqlConnection(queue))
-        {
-            connection.Open();
-            using var ghost = new Npgsql.NpgsqlCommand(
-                """
-                INSERT INTO sweeps.server (id, data, lastheartbeat)
-                    VALUES ('ghost:1', '{"WorkerCount":1,"Queues":["default"],"StartedAt":"2026-12-03T06:00:00Z"}', now());
-                WITH first AS (SELECT jobid FROM sweeps.jobqueue ORDER BY id LIMIT 1),
-                     processing AS (INSERT INTO sweeps.state (jobid, name, createdat, data)
-                         SELECT jobid, 'Processing', now(), '{"StartedAt":"1796278214973","ServerId":"ghost:1","WorkerId":"w1"}' FROM first RETURNING id, jobid)
-                UPDATE sweeps.job SET statename = 'Processing', stateid = processing.id FROM processing WHERE job.id = processing.jobid;
-                DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue);
-                """,
-                connection);
-            ghost.ExecuteNonQuery();
-        }
+        Sql(
+            queue,
+            """
+            INSERT INTO sweeps.server (id, data, lastheartbeat)
+                VALUES ('ghost:1', '{"WorkerCount":1,"Queues":["default"],"StartedAt":"2026-12-03T06:00:00Z"}', now());
+            WITH first AS (SELECT jobid FROM sweeps.jobqueue ORDER BY id LIMIT 1),
+                 processing AS (INSERT INTO sweeps.state (jobid, name, createdat, data)
+                     SELECT jobid, 'Processing', now(), '{"StartedAt":"1796278214973","ServerId":"ghost:1","WorkerId":"w1"}' FROM first RETURNING id, jobid)
+            UPDATE sweeps.job SET statename = 'Processing', stateid = processing.id FROM processing WHERE job.id = processing.jobid;
+            DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue);
+            """);
 
         var status = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue);
         Assert.True(status.ExitCode == 0, status.Error);
@@ -250,27 +211,15 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
         DropFirstQueuedJob(queue);
 
         // Nobody submits again: a worker that has computed chunks of the run looks for lost ones every invisibility
         // timeout (15 s here) and queues chunk 0 again.
-        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
-        var parts = Path.Combine(temp.Path, "shared", "parts");
-        try
-        {
-            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
-        }
-        finally
-        {
-            StopAll(workers);
-        }
+        ComputeShared(temp, queue);
 
         Assert.Contains(workerLog, line => line.Contains($"requeued: {Path.Combine(temp.Path, "shared")} chunk 0 (queued, but no job", StringComparison.Ordinal));
-        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
-        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        ReadEveryPoint(temp);
     }
 
     [SkippableFact]
@@ -278,20 +227,14 @@ public sealed class DistributedTests(PostgresFixture postgres)
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
         using var temp = new TempFolder();
-        var queue = postgres.NewDatabase();
-        var config = temp.Write("stock.toml", Config);
-        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        var (queue, config) = SubmitShared(temp);
 
         var cancel = SweepsProcess.Run(temp.Path, "cancel", "shared", "--queue", queue);
         Assert.Equal(0, cancel.ExitCode);
         Assert.Contains("60 waiting jobs deleted, 0 running jobs told to stop", cancel.Output);
-        var json = SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json");
-        using (var document = System.Text.Json.JsonDocument.Parse(json.Output))
-        {
-            var status = document.RootElement.GetProperty("queue");
-            Assert.Equal(0, status.GetProperty("queued").GetInt64());
-            Assert.Equal(60, status.GetProperty("no_job").GetArrayLength());
-        }
+        var status = QueueJson(temp, queue);
+        Assert.Equal(0, status.GetProperty("queued").GetInt64());
+        Assert.Equal(60, status.GetProperty("no_job").GetArrayLength());
 
         // A worker takes the deleted jobs off the queue without computing them.
         var worker = StartWorker(temp.Path, queue);
@@ -334,12 +277,55 @@ public sealed class DistributedTests(PostgresFixture postgres)
     /// <summary>
     /// The queue loses chunk 0's job the way a worker gives a job up: its queue row removed, the job left in its state.
     /// </summary>
-    private static void DropFirstQueuedJob(string queue)
+    private static void DropFirstQueuedJob(string queue) =>
+        Assert.Equal(1, Sql(queue, "DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)"));
+
+    /// <summary>Runs SQL on the queue's database; returns the rows it changed.</summary>
+    private static int Sql(string queue, string text)
     {
         using var connection = new Npgsql.NpgsqlConnection(queue);
         connection.Open();
-        using var drop = new Npgsql.NpgsqlCommand("DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)", connection);
-        Assert.Equal(1, drop.ExecuteNonQuery());
+        using var command = new Npgsql.NpgsqlCommand(text, connection);
+        return command.ExecuteNonQuery();
+    }
+
+    /// <summary>The "queue" object of <c>status shared --queue --json</c>.</summary>
+    private static System.Text.Json.JsonElement QueueJson(TempFolder temp, string queue)
+    {
+        using var document = System.Text.Json.JsonDocument.Parse(SweepsProcess.Run(temp.Path, "status", "shared", "--queue", queue, "--json").Output);
+        return document.RootElement.GetProperty("queue").Clone();
+    }
+
+    /// <summary>A fresh queue with the test config submitted to it as run "shared".</summary>
+    private (string Queue, string Config) SubmitShared(TempFolder temp)
+    {
+        var queue = postgres.NewDatabase();
+        var config = temp.Write("stock.toml", Config);
+        Assert.Equal(0, SweepsProcess.Run(temp.Path, "submit", config, "--queue", queue, "--out", "shared").ExitCode);
+        return (queue, config);
+    }
+
+    /// <summary>Two workers until run "shared" has all 60 parts (three minutes at most), then stopped.</summary>
+    private void ComputeShared(TempFolder temp, string queue)
+    {
+        var workers = Enumerable.Range(0, 2).Select(_ => StartWorker(temp.Path, queue)).ToList();
+        var parts = Path.Combine(temp.Path, "shared", "parts");
+        try
+        {
+            WaitFor(() => Directory.GetFiles(parts, "*.parquet").Length == 60, TimeSpan.FromMinutes(3), () => $"{Directory.GetFiles(parts, "*.parquet").Length} of 60 parts; {QueueDump(queue)}");
+        }
+        finally
+        {
+            StopAll(workers);
+        }
+    }
+
+    /// <summary>Run "shared" read back by the independent reader, checked to hold every point once.</summary>
+    private static IndependentReader ReadEveryPoint(TempFolder temp)
+    {
+        var shared = IndependentReader.ReadRun(Path.Combine(temp.Path, "shared"));
+        Assert.Equal(Enumerable.Range(0, 24000).Select(i => (long)i), shared.Rows.Select(r => (long)r[0]!).Order());
+        return shared;
     }
 
     /// <summary>For a failure message: the jobs not done (state, queue row, fetched when) and the servers' heartbeats.</summary>

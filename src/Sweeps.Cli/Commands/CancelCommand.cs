@@ -1,6 +1,4 @@
 using System.CommandLine;
-using Hangfire;
-using Microsoft.Extensions.DependencyInjection;
 using Sweeps.Cli.Output;
 using Sweeps.Engine.Runs;
 using Sweeps.Queue;
@@ -25,11 +23,7 @@ internal static class CancelCommand
         {
             var connection = QueueOptions.Require(parse, queue);
             var run = RunDirectory.Open(parse.GetRequiredValue(runArgument));
-            var (waiting, running) = await QueueOptions.Guard(connection, () =>
-            {
-                using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
-                return Task.FromResult(ChunkQueue.Withdraw(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath));
-            });
+            var (waiting, running) = await QueueOptions.Use(connection, (storage, client) => ChunkQueue.Withdraw(storage, client, run.FullPath));
             var missing = run.MissingChunks().Count;
             SummaryText.Line(cli.Output, "run", run.FullPath);
             SummaryText.Line(cli.Output, "cancelled", $"{waiting:N0} waiting job{(waiting == 1 ? "" : "s")} deleted, {running:N0} running job{(running == 1 ? "" : "s")} told to stop");

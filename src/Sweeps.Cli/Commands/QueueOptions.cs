@@ -1,10 +1,12 @@
 using System.CommandLine;
+using Hangfire;
+using Microsoft.Extensions.DependencyInjection;
 using Sweeps.Engine.Config;
 using Sweeps.Queue;
 
 namespace Sweeps.Cli.Commands;
 
-/// <summary>The --queue option shared by submit, worker and status; the environment variable is how a container passes it.</summary>
+/// <summary>The --queue option shared by submit, worker, status and cancel; the environment variable is how a container passes it.</summary>
 internal static class QueueOptions
 {
     public static Option<string?> Create() => new("--queue")
@@ -20,6 +22,17 @@ internal static class QueueOptions
 
     public static string Require(ParseResult parse, Option<string?> option) =>
         Resolve(parse, option) ?? throw ConfigException.Single("--queue", $"give the queue's PostgreSQL connection string (or set {QueueSettings.EnvironmentVariable})");
+
+    /// <summary>
+    /// Runs one operation on the shared queue's storage and job client (a host that serves nothing), guarded as
+    /// <see cref="Guard{T}"/> is.
+    /// </summary>
+    public static Task<T> Use<T>(string connection, Func<JobStorage, IBackgroundJobClient, T> action) =>
+        Guard(connection, () =>
+        {
+            using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
+            return Task.FromResult(action(host.Services.GetRequiredService<JobStorage>(), host.Services.GetRequiredService<IBackgroundJobClient>()));
+        });
 
     /// <summary>Runs a queue operation; a database that cannot be reached is reported with the password masked.</summary>
     public static async Task<T> Guard<T>(string connection, Func<Task<T>> action)

@@ -1,6 +1,4 @@
 using System.CommandLine;
-using Hangfire;
-using Microsoft.Extensions.DependencyInjection;
 using Sweeps.Cli.Output;
 using Sweeps.Engine.Runs;
 using Sweeps.Queue;
@@ -32,11 +30,7 @@ internal static class StatusCommand
             QueueStatus? queued = null;
             if (QueueOptions.Resolve(parse, queue) is { } connection)
             {
-                queued = await QueueOptions.Guard(connection, () =>
-                {
-                    using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
-                    return Task.FromResult(QueueStatus.Read(host.Services.GetRequiredService<JobStorage>(), run.FullPath));
-                });
+                queued = await QueueOptions.Use(connection, (storage, _) => QueueStatus.Read(storage, run.FullPath));
             }
 
             if (parse.GetValue(json))
@@ -61,7 +55,7 @@ internal static class StatusCommand
                 SummaryText.Line(cli.Output, "running", queued.Running.Count == 0 ? "none" : string.Join(", ", queued.Running.Select(r => $"{r.Chunk} on {r.Server}")));
                 SummaryText.Line(cli.Output, "queued", $"{queued.Queued:N0}");
                 SummaryText.Line(cli.Output, "failed", queued.Failed.Count == 0 ? "none" : string.Join("; ", queued.Failed.Select(f => $"{f.Chunk}: {f.Reason}")));
-                var unqueued = summary.MissingChunks.Where(chunk => !queued.Live.Contains(chunk)).ToList();
+                var unqueued = queued.Unqueued(summary.MissingChunks);
                 if (unqueued.Count > 0)
                 {
                     SummaryText.Line(cli.Output, "no job", $"{SummaryText.Chunks(unqueued)}: missing, and no job of theirs is waiting or running; submit the run again to queue them");

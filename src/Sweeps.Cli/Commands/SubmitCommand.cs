@@ -1,6 +1,4 @@
 using System.CommandLine;
-using Hangfire;
-using Microsoft.Extensions.DependencyInjection;
 using Sweeps.Cli.Output;
 using Sweeps.Engine.Config;
 using Sweeps.Engine.Planning;
@@ -34,12 +32,7 @@ internal static class SubmitCommand
             var setup = SweepSetup.Prepare(parse.GetRequiredValue(config), parse.GetValue(set) ?? [], parse.GetValue(outDir), Environment.ProcessorCount);
             var (run, _) = RunDirectory.CreateOrResume(setup.Directory, setup.Spec, setup.ConfigText, setup.Overrides, setup.ChunkSize, cli.Clock, cleanAbandoned: false);
             var missing = run.MissingChunks();
-            var counts = await QueueOptions.Guard(connection, () =>
-            {
-                using var host = QueueHost.Build(new QueueSettings(1, connection), serve: false);
-                var storage = host.Services.GetRequiredService<JobStorage>();
-                return Task.FromResult(ChunkQueue.Submit(storage, host.Services.GetRequiredService<IBackgroundJobClient>(), run.FullPath, missing, chunk => !File.Exists(run.PartPath(chunk))));
-            });
+            var counts = await QueueOptions.Use(connection, (storage, client) => ChunkQueue.Submit(storage, client, run.FullPath, missing, chunk => !run.IsDone(chunk)));
             cli.Output.WriteLine(run.FullPath);
             SummaryText.Line(cli.Error, "run", $"{run.FullPath} (spec {run.Manifest.SpecHash[..12]})");
             SummaryText.Line(cli.Error, "chunks", $"{run.Manifest.ChunkCount:N0}: {run.Manifest.ChunkCount - missing.Count:N0} done, {counts.Queued:N0} queued now, {missing.Count - counts.Queued:N0} already queued");

@@ -58,7 +58,7 @@ internal static class SummaryJson
 
                 // Missing chunks no job will compute (never queued, failed, or dropped by the queue): submit again.
                 json.WriteStartArray("no_job");
-                foreach (var chunk in summary.MissingChunks.Where(chunk => !queue.Live.Contains(chunk)))
+                foreach (var chunk in queue.Unqueued(summary.MissingChunks))
                 {
                     json.WriteNumberValue(chunk);
                 }
