@@ -18,7 +18,11 @@ public static class ChunkRunner
 {
     private const int ProgressEvery = 256;
 
-    /// <summary>Runs the chunk unless its part already exists; returns the number of points computed.</summary>
+    /// <summary>
+    /// Runs the chunk unless its part already exists; returns the number of points computed. The part is written as the
+    /// points are computed, a row group at a time (<see cref="PartStream"/>); a continuation sweep's lines, computed
+    /// back and forth, are written when the chunk is done.
+    /// </summary>
     public static async Task<long> RunAsync(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
     {
         var run = context.Run;
@@ -28,21 +32,40 @@ public static class ChunkRunner
             return 0;
         }
 
-        var (columns, attractors) = Compute(context, chunk, progress, token);
-
-        // The attractor part first: a chunk whose main part exists is complete in both tables. With one start per
-        // point it would repeat the main table, so it is written only when a point can have several outcomes.
-        if (context.WritesAttractors)
+        if (context.Spec.Grid.Follow is not null)
         {
-            await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
+            var (lines, lineAttractors) = ComputeLines(context, chunk, progress, token);
+            await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, lineAttractors, context.Metadata, token);
+            var lineTally = PartTally.Of(lines);
+            await PartWriter.WriteAsync(path, context.Schema, lines, lineTally, context.Metadata, token);
+            context.Wrote(chunk, lineTally);
+            return lines.Count;
         }
 
-        var tally = PartTally.Of(columns);
-        await PartWriter.WriteAsync(path, context.Schema, columns, tally, context.Metadata, token);
-        context.Wrote(chunk, tally);
-        var count = columns.Count;
-        context.ReturnColumns(columns);
-        return count;
+        var manifest = run.Manifest;
+        var first = chunk * manifest.ChunkSize;
+        var count = (int)(Math.Min(manifest.Points, first + manifest.ChunkSize) - first);
+        var columns = context.RentColumns(count);
+        try
+        {
+            using var part = new PartStream(path, context.Schema, context.GroupRows);
+            var (rest, attractors) = ComputePoints(context.Model, context.WritesAttractors, context.Spec, columns, count, i => first + i, part, progress, token);
+            part.Append(rest);
+
+            // The attractor part first: a chunk whose main part exists is complete in both tables. With one start per
+            // point it would repeat the main table, so it is written only when a point can have several outcomes.
+            if (context.WritesAttractors)
+            {
+                await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, attractors, context.Metadata, token);
+            }
+
+            context.Wrote(chunk, part.Commit(context.Metadata));
+            return count;
+        }
+        finally
+        {
+            context.ReturnColumns(columns);
+        }
     }
 
     /// <summary>
@@ -57,27 +80,13 @@ public static class ChunkRunner
             return;
         }
 
-        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, ChunkColumns.For(spec, points.Length), points.Length, i => points[i], null, token);
+        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, ChunkColumns.For(spec, points.Length), points.Length, i => points[i], null, null, token);
         if (context.WritesAttractors)
         {
             await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
         }
 
         await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
-    }
-
-    private static (ChunkColumns Points, AttractorColumns Attractors) Compute(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
-    {
-        if (context.Spec.Grid.Follow is not null)
-        {
-            return ComputeLines(context, chunk, progress, token);
-        }
-
-        var manifest = context.Run.Manifest;
-        var first = chunk * manifest.ChunkSize;
-        var last = Math.Min(manifest.Points, first + manifest.ChunkSize);
-        var count = (int)(last - first);
-        return ComputePoints(context.Model, context.WritesAttractors, context.Spec, context.RentColumns(count), count, i => first + i, progress, token);
     }
 
     /// <summary>
@@ -91,7 +100,7 @@ public static class ChunkRunner
         var columns = ChunkColumns.For(spec, points.Count, branches: follow);
         if (!follow)
         {
-            return ComputePoints(model, spec.GroupsAttractors, spec, columns, points.Count, i => points[i], null, CancellationToken.None);
+            return ComputePoints(model, spec.GroupsAttractors, spec, columns, points.Count, i => points[i], null, null, CancellationToken.None);
         }
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, model);
@@ -109,14 +118,19 @@ public static class ChunkRunner
         return (columns, attractors);
     }
 
+    /// <summary>
+    /// Computes <paramref name="count"/> points into <paramref name="columns"/>; with a <paramref name="part"/>, every
+    /// <see cref="PartStream.GroupRows"/> rows go to it as a row group and the columns are cleared, and the rows after the
+    /// last full group are left in the columns returned.
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputePoints(
-        Core.Models.Model model, bool writesAttractors, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        Core.Models.Model model, bool writesAttractors, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, PartStream? part, Action<long>? progress, CancellationToken token)
     {
         // Parts store no cycle states or boxes: only attractor rows need them.
         if (Probing.AnalyzerFactory.CreateBlock(spec, model, lean: !writesAttractors) is { } block)
         {
-            return ComputeBlocks(block, spec, columns, count, pointAt, progress, token);
+            return ComputeBlocks(block, spec, columns, count, pointAt, part, progress, token);
         }
 
         var analyzer = Probing.AnalyzerFactory.Create(spec, model, lean: !writesAttractors);
@@ -128,6 +142,12 @@ public static class ChunkRunner
         var pending = 0L;
         for (var i = 0; i < count; i++)
         {
+            if (part is not null && columns.Count == part.GroupRows)
+            {
+                part.Append(columns);
+                columns.Clear();
+            }
+
             var point = pointAt(i);
             source.Fill(point);
             if (starts is null)
@@ -174,7 +194,7 @@ public static class ChunkRunner
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static (ChunkColumns Points, AttractorColumns Attractors) ComputeBlocks(
-        IBlockAnalyzer block, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, Action<long>? progress, CancellationToken token)
+        IBlockAnalyzer block, Specs.SweepSpec spec, ChunkColumns columns, int count, Func<int, long> pointAt, PartStream? part, Action<long>? progress, CancellationToken token)
     {
         var dimension = spec.Model.Variables.Count;
         var attractors = new AttractorColumns(dimension);
@@ -185,6 +205,13 @@ public static class ChunkRunner
         for (var i = 0; i < count; i += size)
         {
             var lanes = Math.Min(size, count - i);
+            if (part is not null && columns.Count + size > part.GroupRows)
+            {
+                // A group's rows are a whole number of blocks (ChunkColumns.GroupRows): it ends where a block does.
+                part.Append(columns);
+                columns.Clear();
+            }
+
             source.Fill(lanes, pointAt, offset: i);
             var before = columns.Count;
 

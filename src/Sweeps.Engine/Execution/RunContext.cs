@@ -28,6 +28,7 @@ public sealed class RunContext
         Spec = run.LoadSpec();
         Model = model ?? ModelFactory.Build(Spec);
         Schema = new PartSchema(Spec);
+        GroupRows = ChunkColumns.GroupRows(Spec);
         AttractorSchema = new AttractorSchema(Spec);
         Metadata = PartMetadata(Spec, run.Manifest.SpecHash, run.Manifest.ModelHash, run.Manifest.ProgramVersion);
     }
@@ -56,21 +57,28 @@ public sealed class RunContext
 
     public IReadOnlyDictionary<string, string> Metadata { get; }
 
-    // Columns of written chunks, kept for the next chunk: a chunk's columns are large arrays (a megabyte each at the
-    // largest chunk size), and fresh ones cost page faults, zeroing and collections of the large-object heap. At most
-    // one set per worker is in use at a time, so the pool holds at most that many.
+    // Columns of written row groups, kept for the next chunk: they are large arrays (a quarter of a megabyte each), and
+    // fresh ones cost page faults, zeroing and collections of the large-object heap. At most one set per worker is in
+    // use at a time, so the pool holds at most that many.
     private readonly ConcurrentBag<ChunkColumns> spareColumns = [];
 
-    /// <summary>Empty columns for <paramref name="count"/> rows of this run's spec: a returned set when one is big enough.</summary>
+    /// <summary>Rows in a row group of this run's parts (<see cref="ChunkColumns.GroupRows"/>).</summary>
+    internal int GroupRows { get; }
+
+    /// <summary>
+    /// Empty columns for a row group of a chunk of <paramref name="count"/> points (the chunk's rows, or
+    /// <see cref="GroupRows"/> of them): a returned set when one is big enough.
+    /// </summary>
     internal ChunkColumns RentColumns(int count)
     {
-        if (Spec.Grid.Follow is null && spareColumns.TryTake(out var columns) && columns.Capacity >= count)
+        var rows = Math.Min(count, GroupRows);
+        if (spareColumns.TryTake(out var columns) && columns.Capacity >= rows)
         {
             columns.Clear();
             return columns;
         }
 
-        return ChunkColumns.For(Spec, count);
+        return ChunkColumns.For(Spec, rows);
     }
 
     private readonly ConcurrentDictionary<long, PartTally> written = new();
@@ -86,7 +94,7 @@ public sealed class RunContext
     /// <summary>Gives back columns whose part is written (their contents are no longer needed).</summary>
     internal void ReturnColumns(ChunkColumns columns)
     {
-        if (columns.Backward is null && columns.Capacity == Run.Manifest.ChunkSize)
+        if (columns.Backward is null && columns.Capacity == Math.Min(Run.Manifest.ChunkSize, GroupRows))
         {
             spareColumns.Add(columns);
         }

@@ -36,6 +36,31 @@ internal sealed class ChunkColumns
     public static ChunkColumns For(Specs.SweepSpec spec, int capacity, bool branches = false) =>
         new(capacity, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, branches, spec.Analysis.Samples);
 
+    /// <summary>The most rows a row group of a streamed part holds (a page of a numeric column: <see cref="Columnar.ColumnarFile.PageValues"/>).</summary>
+    public const int MaxGroupRows = Columnar.ColumnarFile.PageValues;
+
+    /// <summary>
+    /// About the most memory a row group's columns take (<see cref="GroupRows"/>): samples make a row large — a thousand
+    /// per point are 8 KB — and a chunk's rows, held at once, were a gigabyte per worker at that.
+    /// </summary>
+    public const int GroupBytes = 8 << 20;
+
+    /// <summary>
+    /// Rows in a row group of a streamed part of <paramref name="spec"/> (<see cref="PartStream"/>): as many as fit in
+    /// <see cref="GroupBytes"/> of columns, at most <see cref="MaxGroupRows"/>, in whole blocks of 32 points (every
+    /// block analyzer's block divides it, so row groups end where blocks do). A function of the spec alone: the same
+    /// chunk is always cut the same way, and its part is the same bytes.
+    /// </summary>
+    public static int GroupRows(Specs.SweepSpec spec)
+    {
+        const int block = 32;
+        var n = spec.Model.Variables.Count;
+        var row = sizeof(long) + (sizeof(double) * spec.Grid.Axes.Count) + IntPtr.Size + sizeof(int) + sizeof(double) + sizeof(int)
+            + (3 * sizeof(double) * n) + (spec.Analysis.Indicators ? 3 * sizeof(double) : 0) + (3 * sizeof(int))
+            + (sizeof(double) * spec.Analysis.Samples * n);
+        return (int)Math.Clamp(GroupBytes / row / block * block, block, MaxGroupRows);
+    }
+
     public int Count { get; private set; }
 
     /// <summary>Rows the columns hold at most.</summary>

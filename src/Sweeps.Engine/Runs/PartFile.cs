@@ -5,11 +5,21 @@ namespace Sweeps.Engine.Runs;
 /// <summary>A chunk's columns as a point part, in the order and with the types of <see cref="PartSchema"/>.</summary>
 internal static class PartFile
 {
+    /// <summary>The footer's created_by: the program and its version.</summary>
+    public static string CreatedBy => $"sweeps version {ProgramInfo.Version}";
+
     /// <param name="pageValues">Values in a page of a numeric or list column at most (<see cref="ColumnarFile.PageValues"/>).</param>
     public static void Write(Stream stream, PartSchema schema, ChunkColumns columns, IEnumerable<KeyValuePair<string, string>> metadata, int pageValues = ColumnarFile.PageValues)
     {
-        var count = columns.Count;
         using var file = new ColumnarFile(stream, pageValues);
+        WriteRowGroup(file, schema, columns);
+        file.Finish(metadata, CreatedBy);
+    }
+
+    /// <summary>The columns' rows as the next row group of <paramref name="file"/>.</summary>
+    public static void WriteRowGroup(ColumnarFile file, PartSchema schema, ChunkColumns columns)
+    {
+        var count = columns.Count;
         file.Int64Delta(schema.Point.Name, columns.Point.AsSpan(0, count));
         for (var a = 0; a < schema.Axes.Count; a++)
         {
@@ -37,7 +47,7 @@ internal static class PartFile
             Samples(file, schema.BackwardSamples.Name, backward);
         }
 
-        file.Finish(count, metadata, $"sweeps version {ProgramInfo.Version}");
+        file.EndRowGroup(count);
     }
 
     private static void Doubles(ColumnarFile file, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count)

@@ -63,6 +63,32 @@ internal sealed record PartTally(
         return new PartTally(regimes, periods, min, max, multistable, hysteresis, columns.Count);
     }
 
+    /// <summary>The counts of this part's rows and <paramref name="other"/>'s together.</summary>
+    public PartTally Plus(PartTally other)
+    {
+        var regimes = new SortedDictionary<string, long>(Regimes, StringComparer.Ordinal);
+        foreach (var (regime, count) in other.Regimes)
+        {
+            regimes[regime] = regimes.GetValueOrDefault(regime) + count;
+        }
+
+        var periods = new SortedDictionary<int, long>(Periods);
+        foreach (var (period, count) in other.Periods)
+        {
+            periods[period] = periods.GetValueOrDefault(period) + count;
+        }
+
+        var hysteresis = Hysteresis is null && other.Hysteresis is null ? (long?)null : (Hysteresis ?? 0) + (other.Hysteresis ?? 0);
+        return new PartTally(
+            regimes,
+            periods,
+            Math.Min(LargestExponentMin, other.LargestExponentMin),
+            Math.Max(LargestExponentMax, other.LargestExponentMax),
+            Multistable + other.Multistable,
+            hysteresis,
+            Rows + other.Rows);
+    }
+
     public string ToJson() => CompactJson.Text(new JsonObject
     {
         ["rows"] = Rows,

@@ -3,8 +3,9 @@ using Parquet;
 namespace Sweeps.Engine.Runs;
 
 /// <summary>
-/// Writes a chunk's columns as one Parquet file (Snappy, one row group per chunk): point parts with
-/// Sweeps' own column writer, attractor parts with Parquet.Net. The file is written under a temporary
+/// Writes columns held in memory as one Parquet file of one row group (Snappy): point parts with Sweeps' own column
+/// writer — those of continuation sweeps and refinement levels; a chunk's part is written as it is computed
+/// (<see cref="PartStream"/>) — and attractor parts with Parquet.Net. The file is written under a temporary
 /// name in the same folder and renamed into place, so readers and resumes never see a partial part.
 /// Nothing time-dependent goes into it: the same chunk always gives the same bytes.
 /// </summary>
@@ -101,7 +102,7 @@ public static class PartWriter
     /// <summary>Writes a file under a temporary name in the same folder and renames it into place.</summary>
     private static async Task CommitAsync(string path, Func<Stream, Task> write)
     {
-        var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
+        var temporary = TemporaryPath(path);
         try
         {
             await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
@@ -109,6 +110,22 @@ public static class PartWriter
                 await write(stream);
             }
 
+            Publish(temporary, path);
+        }
+        finally
+        {
+            File.Delete(temporary);
+        }
+    }
+
+    /// <summary>A new temporary name beside <paramref name="path"/>, for the file until it is complete.</summary>
+    internal static string TemporaryPath(string path) => $"{path}.tmp-{Guid.NewGuid():N}";
+
+    /// <summary>Renames a complete file into place, unless a file is there already (then the temporary one stays to be deleted).</summary>
+    internal static void Publish(string temporary, string path)
+    {
+        try
+        {
             // At-least-once delivery can run a chunk twice; the first complete file wins, and both are identical.
             if (!File.Exists(path))
             {
@@ -118,10 +135,6 @@ public static class PartWriter
         catch (IOException) when (File.Exists(path))
         {
             // Another run of the same chunk renamed its file first.
-        }
-        finally
-        {
-            File.Delete(temporary);
         }
     }
 

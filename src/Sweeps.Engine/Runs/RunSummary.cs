@@ -32,12 +32,7 @@ public sealed record RunSummary(
 
     private static async Task<RunSummary> ReadAsync(RunDirectory run, IReadOnlyDictionary<long, PartTally>? known, CancellationToken token)
     {
-        var regimes = new SortedDictionary<string, long>(StringComparer.Ordinal);
-        var periods = new SortedDictionary<int, long>();
-        var (min, max) = (double.PositiveInfinity, double.NegativeInfinity);
-        var done = 0L;
-        var multistable = 0L;
-        long? hysteretic = null;
+        PartTally? total = null;
         var missing = new List<long>();
         for (var chunk = 0L; chunk < run.Manifest.ChunkCount; chunk++)
         {
@@ -49,35 +44,23 @@ public sealed record RunSummary(
             }
 
             var tally = known?.GetValueOrDefault(chunk) ?? await TallyAsync(path, token);
-            foreach (var (regime, count) in tally.Regimes)
-            {
-                regimes[regime] = regimes.GetValueOrDefault(regime) + count;
-            }
-
-            foreach (var (period, count) in tally.Periods)
-            {
-                periods[period] = periods.GetValueOrDefault(period) + count;
-            }
-
-            (min, max) = (Math.Min(min, tally.LargestExponentMin), Math.Max(max, tally.LargestExponentMax));
-            multistable += tally.Multistable;
-            hysteretic = tally.Hysteresis is { } flagged ? (hysteretic ?? 0) + flagged : hysteretic;
-            done += tally.Rows;
+            total = total?.Plus(tally) ?? tally;
         }
 
+        var (min, max) = total is null ? (double.PositiveInfinity, double.NegativeInfinity) : (total.LargestExponentMin, total.LargestExponentMax);
         return new RunSummary(
             run.Manifest.Points,
-            done,
+            total?.Rows ?? 0,
             run.Manifest.ChunkCount,
             run.Manifest.ChunkCount - missing.Count,
             missing,
-            regimes,
-            periods,
+            total?.Regimes ?? new SortedDictionary<string, long>(StringComparer.Ordinal),
+            total?.Periods ?? new SortedDictionary<int, long>(),
             min <= max ? min : double.NaN,
             min <= max ? max : double.NaN,
             missing.Count == 0 ? RunManifest.Complete : "incomplete",
-            multistable,
-            hysteretic);
+            total?.Multistable ?? 0,
+            total?.Hysteresis);
     }
 
     /// <summary>A part's counts from its footer (<see cref="PartTally"/>): no rows to read.</summary>

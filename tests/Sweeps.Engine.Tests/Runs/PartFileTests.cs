@@ -5,6 +5,7 @@ using Sweeps.Core.Analysis;
 using Sweeps.Core.Indicators;
 using Sweeps.Engine.Config;
 using Sweeps.Engine.Runs;
+using static Sweeps.Engine.Tests.Runs.IndependentParquet;
 
 namespace Sweeps.Engine.Tests.Runs;
 
@@ -108,6 +109,59 @@ public sealed class PartFileTests
         var paged = Write(schema, columns, pageValues: 1);
         Assert.True(paged.Length - whole.Length >= 12 * 199 * 14, $"{paged.Length} bytes against {whole.Length}");
         Assert.Equal(Bits(ReadIndependently(whole)["samples"]), Bits(ReadIndependently(paged)["samples"]));
+    }
+
+    [Fact]
+    public void RowGroups_ReadBackAsTheRowsOfOneGroup_ThroughAnIndependentReader()
+    {
+        // A part written a row group at a time as its chunk is computed (PartStream): cut anywhere, the file holds the
+        // same rows, in order, as the part written whole, with each row group's own row count in its metadata.
+        Gen.Select(Rows.Array[1, 60], Gen.Long.Array[2, 700], Gen.Int[1, 5], Gen.Int[1, 12]).Sample((rows, points, groups, page) =>
+        {
+            var (schema, whole) = Build(rows, points);
+            var expanded = rows.SelectMany(r => Enumerable.Repeat(r with { Run = 1 }, r.Run)).Take(points.Length).ToArray();
+            var cuts = Enumerable.Range(0, groups).Select(g => g * expanded.Length / groups).Append(expanded.Length).Distinct().ToArray();
+            using var stream = new MemoryStream();
+            using (var file = new Sweeps.Engine.Runs.Columnar.ColumnarFile(stream, page))
+            {
+                for (var g = 0; g + 1 < cuts.Length; g++)
+                {
+                    var (from, to) = (cuts[g], cuts[g + 1]);
+                    PartFile.WriteRowGroup(file, schema, Build(expanded[from..to], points[from..to], from).Columns);
+                }
+
+                file.Finish(new Dictionary<string, string>(), "test");
+            }
+
+            var table = ReadIndependently(stream.ToArray());
+            Assert.Equal(cuts.Zip(cuts.Skip(1), (from, to) => to - from), table.GroupRows);
+            AssertSame(whole, table, backward: false);
+            AssertSame(whole.Backward!, table, backward: true);
+            Assert.Equal(whole.Hysteresis.Take(whole.Count).Cast<object?>(), table["hysteresis"]);
+            Assert.Equal(whole.Reasons(whole.Count), table["reason"].Cast<string?>());
+        }, iter: 40);
+    }
+
+    [Fact]
+    public void RowGroups_MustRepeatTheColumnsOfTheFirst()
+    {
+        // A file has one schema: a row group of another table's columns is refused — one without the backward branch,
+        // and one of as many columns under other names (the model's variables renamed).
+        var (schema, columns) = Build(Rows.Array[5].Single(), [1, 2, 3]);
+        var renamed = Config
+            .Replace("[\"x\", \"y\"]", "[\"u\", \"v\"]")
+            .Replace("x = \"1 - a*x^2 + y\"", "u = \"1 - a*u^2 + v\"")
+            .Replace("y = \"b*x\"", "v = \"b*u\"")
+            .Replace("x = 0.1", "u = 0.1")
+            .Replace("y = 0.1", "v = 0.1");
+        foreach (var config in new[] { Config.Replace("follow = \"a\"", ""), renamed })
+        {
+            var other = new PartSchema(SpecReader.Parse(config, "other.toml"));
+            Assert.NotEqual(schema.Schema.Fields.Select(f => f.Name), other.Schema.Fields.Select(f => f.Name));
+            using var file = new Sweeps.Engine.Runs.Columnar.ColumnarFile(new MemoryStream());
+            PartFile.WriteRowGroup(file, schema, columns);
+            Assert.Throws<InvalidOperationException>(() => PartFile.WriteRowGroup(file, other, columns));
+        }
     }
 
     [Fact]
@@ -317,15 +371,18 @@ public sealed class PartFileTests
     }
 
     /// <summary>Columns of a continuation sweep's part, one row per entry of <paramref name="rows"/> (runs expanded) up to the points given.</summary>
+    /// <remarks>Row i's values follow from its entry and from <paramref name="first"/> + i (a slice of a larger table, rows
+    /// <paramref name="first"/> on, is built with runs of one and its own <paramref name="first"/>).</remarks>
     private static (PartSchema Schema, ChunkColumns Columns) Build(
-        IReadOnlyList<(Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)> rows, long[] points)
+        IReadOnlyList<(Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)> rows, long[] points, int first = 0)
     {
         var spec = SpecReader.Parse(Config, "test.toml");
         var expanded = rows.SelectMany(r => Enumerable.Repeat(r, r.Run)).Take(points.Length).ToArray();
         var columns = ChunkColumns.For(spec, expanded.Length, branches: true);
-        for (var i = 0; i < expanded.Length; i++)
+        for (var row = 0; row < expanded.Length; row++)
         {
-            var (regime, _, samples, value, reason, flag) = expanded[i];
+            var i = first + row;
+            var (regime, _, samples, value, reason, flag) = expanded[row];
             var state = new[] { value, -i };
             var result = new PointResult(
                 regime,
@@ -340,7 +397,7 @@ public sealed class PartFileTests
                 Enumerable.Range(0, samples * 2).Select(k => value + k).ToArray(),
                 i % 3 == 0 ? double.NaN : i,
                 i % 2 == 0 ? new IndicatorValues(value, i, -i) : null);
-            columns.Add(points[i], [value * 2], result, 1 + (i % 4));
+            columns.Add(points[row], [value * 2], result, 1 + (i % 4));
             columns.AddBackward(result with { Regime = flag ? Regime.Divergent : regime, Samples = result.Samples.Reverse().ToArray() }, flag);
         }
 
@@ -396,69 +453,5 @@ public sealed class PartFileTests
         Assert.Equal(Bits(columns.Indicators[0].Take(n).Cast<object?>()), Bits(table["zero_one_k"]));
         Assert.Equal(Bits(columns.Indicators[2].Take(n).Cast<object?>()), Bits(table["lz_complexity"]));
         Assert.Equal(columns.Reasons(n), table["reason"].Cast<string?>());
-    }
-
-    /// <summary>Values with doubles as their exact bits (NaN payloads and the sign of zero included).</summary>
-    private static IEnumerable<string> Bits(IEnumerable<object?> values) => values.Select(v => v switch
-    {
-        double d => BitConverter.DoubleToInt64Bits(d).ToString("x16"),
-        double[] list => string.Join(";", list.Select(d => BitConverter.DoubleToInt64Bits(d).ToString("x16"))),
-        null => "null",
-        _ => v.ToString()!,
-    });
-
-    private static int ColumnIndex(ParquetFileReader reader, string path)
-    {
-        var schema = reader.FileMetaData.Schema;
-        return Enumerable.Range(0, schema.NumColumns).Single(c => schema.Column(c).Path.ToDotString() == path);
-    }
-
-    private static Table ReadIndependently(byte[] bytes)
-    {
-        using var file = new Temporary(bytes);
-        using var reader = new ParquetFileReader(file.Path);
-        var schema = reader.FileMetaData.Schema;
-        using var group = reader.RowGroup(0);
-        var rows = (int)group.MetaData.NumRows;
-        var table = new Table();
-        for (var c = 0; c < schema.NumColumns; c++)
-        {
-            var descriptor = schema.Column(c);
-            var name = descriptor.Path.ToDotString().Split('.')[0];
-            using var column = group.Column(c);
-            table[name] = descriptor switch
-            {
-                { MaxRepetitionLevel: > 0 } => column.LogicalReader<double[]?>().ReadAll(rows),
-                { PhysicalType: PhysicalType.Int64 } => column.LogicalReader<long>().ReadAll(rows).Cast<object?>().ToArray(),
-                { PhysicalType: PhysicalType.Int32 } => column.LogicalReader<int>().ReadAll(rows).Cast<object?>().ToArray(),
-                { PhysicalType: PhysicalType.Boolean } => column.LogicalReader<bool>().ReadAll(rows).Cast<object?>().ToArray(),
-                { PhysicalType: PhysicalType.Double } => column.LogicalReader<double>().ReadAll(rows).Cast<object?>().ToArray(),
-                _ => column.LogicalReader<string?>().ReadAll(rows),
-            };
-            table.Descriptors.Add((descriptor.Path.ToDotString(), descriptor.PhysicalType, descriptor.LogicalType.ToString(), descriptor.MaxDefinitionLevel, descriptor.MaxRepetitionLevel));
-        }
-
-        return table;
-    }
-
-    private static IEnumerable<string> Describe(IEnumerable<(string Path, PhysicalType Type, string Logical, short Definition, short Repetition)> columns) =>
-        columns.Select(c => $"{c.Path} {c.Type} {c.Logical} def {c.Definition} rep {c.Repetition}");
-
-    /// <summary>Columns read back by name, in file order, with their descriptions.</summary>
-    private sealed class Table : Dictionary<string, object?[]>
-    {
-        public List<(string Path, PhysicalType Type, string Logical, short Definition, short Repetition)> Descriptors { get; } = [];
-    }
-
-    private sealed class Temporary : IDisposable
-    {
-        public Temporary(byte[] bytes)
-        {
-            File.WriteAllBytes(Path, bytes);
-        }
-
-        public string Path { get; } = System.IO.Path.Combine(System.IO.Path.GetTempPath(), $"sweeps-part-{Guid.NewGuid():N}.parquet");
-
-        public void Dispose() => File.Delete(Path);
     }
 }

@@ -7,9 +7,14 @@ internal sealed partial class ColumnarFile
 {
     private const int FormatVersion = 2;
 
-    /// <summary>Writes the footer of the file's one row group of <paramref name="rows"/> rows.</summary>
-    public void Finish(long rows, IEnumerable<KeyValuePair<string, string>> metadata, string createdBy)
+    /// <summary>Writes the footer of the row groups ended so far (<see cref="EndRowGroup"/>; at least one).</summary>
+    public void Finish(IEnumerable<KeyValuePair<string, string>> metadata, string createdBy)
     {
+        if (groups.Count == 0 || chunks.Count > 0)
+        {
+            throw new InvalidOperationException("A file is finished after its last row group ends.");
+        }
+
         header.Clear();
         var thrift = new CompactWriter(header);
         thrift.BeginStruct();
@@ -24,9 +29,13 @@ internal sealed partial class ColumnarFile
             SchemaElement(thrift, node);
         }
 
-        thrift.I64(3, rows);
-        thrift.List(4, CompactWriter.Element.Struct, 1);
-        RowGroup(thrift, rows);
+        thrift.I64(3, groups.Sum(g => g.Rows));
+        thrift.List(4, CompactWriter.Element.Struct, groups.Count);
+        foreach (var (groupChunks, rows) in groups)
+        {
+            RowGroup(thrift, groupChunks, rows);
+        }
+
         var pairs = metadata.ToArray();
         thrift.List(5, CompactWriter.Element.Struct, pairs.Length);
         foreach (var (key, value) in pairs)
@@ -40,8 +49,8 @@ internal sealed partial class ColumnarFile
         thrift.String(6, createdBy);
 
         // Every column is ordered by its type's own order (what the statistics' min_value and max_value follow).
-        thrift.List(7, CompactWriter.Element.Struct, chunks.Count);
-        for (var i = 0; i < chunks.Count; i++)
+        thrift.List(7, CompactWriter.Element.Struct, groups[0].Chunks.Length);
+        for (var i = 0; i < groups[0].Chunks.Length; i++)
         {
             thrift.BeginStruct();
             thrift.EmptyStruct(1);
@@ -100,10 +109,10 @@ internal sealed partial class ColumnarFile
         thrift.EndStruct();
     }
 
-    private void RowGroup(CompactWriter thrift, long rows)
+    private static void RowGroup(CompactWriter thrift, ColumnChunk[] chunks, long rows)
     {
         thrift.BeginStruct();
-        thrift.List(1, CompactWriter.Element.Struct, chunks.Count);
+        thrift.List(1, CompactWriter.Element.Struct, chunks.Length);
         foreach (var chunk in chunks)
         {
             thrift.BeginStruct();
@@ -139,7 +148,7 @@ internal sealed partial class ColumnarFile
 
         thrift.I64(2, chunks.Sum(c => c.Uncompressed));
         thrift.I64(3, rows);
-        thrift.I64(5, chunks.Count > 0 ? chunks[0].Start : Magic.Length);
+        thrift.I64(5, chunks[0].Start);
         thrift.I64(6, chunks.Sum(c => c.Compressed));
         thrift.EndStruct();
     }

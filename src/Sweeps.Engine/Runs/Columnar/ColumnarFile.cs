@@ -6,7 +6,8 @@ using System.Text;
 namespace Sweeps.Engine.Runs.Columnar;
 
 /// <summary>
-/// A Parquet file of one row group, written column by column in schema order: each column in version-1 data pages
+/// A Parquet file of one or more row groups, each written column by column in schema order (the first row group sets the
+/// schema; every later one repeats its columns in the same order): each column in version-1 data pages
 /// (after a dictionary page for dictionary-encoded strings), Snappy-compressed where that pays, then the footer with the schema,
 /// statistics and key–value metadata. Numeric columns and the samples' list are cut into pages of at most
 /// <see cref="PageValues"/> values (whole rows), so that what a page is copied, compressed and written through stays
@@ -37,6 +38,8 @@ internal sealed partial class ColumnarFile : IDisposable
     private readonly int pageValues;
     private readonly List<SchemaNode> schema = [];
     private readonly List<ColumnChunk> chunks = [];
+    private readonly List<(ColumnChunk[] Chunks, long Rows)> groups = [];
+    private int schemaAt;
     private readonly PooledBuffer body = new(1 << 16);
     private readonly PooledBuffer header = new(256);
     private int topLevel;
@@ -222,10 +225,9 @@ internal sealed partial class ColumnarFile : IDisposable
     /// </summary>
     public void DoubleList(string name, ReadOnlySpan<double> values, ReadOnlySpan<int> counts)
     {
-        schema.Add(new SchemaNode(name, null, Repetition.Optional, 1, Annotation.List));
-        topLevel++;
-        schema.Add(new SchemaNode("list", null, Repetition.Repeated, 1, Annotation.None));
-        schema.Add(new SchemaNode("element", Physical.Double, Repetition.Required, 0, Annotation.None));
+        Node(new SchemaNode(name, null, Repetition.Optional, 1, Annotation.List), topLevel: true);
+        Node(new SchemaNode("list", null, Repetition.Repeated, 1, Annotation.None), topLevel: false);
+        Node(new SchemaNode("element", Physical.Double, Repetition.Required, 0, Annotation.None), topLevel: false);
         var levels = ListLevels.Count(counts);
 
         // The codec follows the values alone: the levels at a page's start always shrink, chaotic samples do not.
@@ -268,10 +270,42 @@ internal sealed partial class ColumnarFile : IDisposable
         header.Dispose();
     }
 
-    private void Leaf(string name, Physical type, Repetition repetition, Annotation annotation)
+    /// <summary>
+    /// Ends a row group of <paramref name="rows"/> rows: the columns written since the last one (all of the schema's, in
+    /// its order) are its column chunks.
+    /// </summary>
+    public void EndRowGroup(long rows)
     {
-        schema.Add(new SchemaNode(name, type, repetition, 0, annotation));
-        topLevel++;
+        if (schemaAt != schema.Count || chunks.Count == 0)
+        {
+            throw new InvalidOperationException($"A row group ended after {schemaAt} of the schema's {schema.Count} elements.");
+        }
+
+        groups.Add((chunks.ToArray(), rows));
+        chunks.Clear();
+        schemaAt = 0;
+    }
+
+    private void Leaf(string name, Physical type, Repetition repetition, Annotation annotation) =>
+        Node(new SchemaNode(name, type, repetition, 0, annotation), topLevel: true);
+
+    /// <summary>
+    /// A schema element: added while the first row group is written; in every later one it must be the element at the
+    /// same place (row groups share the file's one schema).
+    /// </summary>
+    private void Node(SchemaNode node, bool topLevel)
+    {
+        if (groups.Count == 0)
+        {
+            schema.Add(node);
+            this.topLevel += topLevel ? 1 : 0;
+        }
+        else if (schemaAt >= schema.Count || schema[schemaAt] != node)
+        {
+            throw new InvalidOperationException($"Column '{node.Name}' does not follow the schema of the file's first row group.");
+        }
+
+        schemaAt++;
     }
 
     /// <summary>

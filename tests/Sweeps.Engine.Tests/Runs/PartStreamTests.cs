@@ -1,0 +1,166 @@
+using Sweeps.Engine.Config;
+using Sweeps.Engine.Execution;
+using Sweeps.Engine.Runs;
+using static Sweeps.Engine.Tests.Runs.IndependentParquet;
+
+namespace Sweeps.Engine.Tests.Runs;
+
+/// <summary>
+/// A chunk's part written a row group at a time while the chunk is computed: the file holds the rows of the part written
+/// whole from the same points (read back through ParquetSharp), its footer the counts of all of them, and a chunk
+/// stopped half-way leaves nothing behind. Row groups keep a chunk's columns to a bounded size however many samples a
+/// point has.
+/// </summary>
+public sealed class PartStreamTests
+{
+    // Common practice: the logistic map from its fixed point through its cycles into chaos, and escapes past r = 4. With
+    // 512 samples a row takes 4 KB, so a row group holds about two thousand rows and a chunk of 5000 three row groups.
+    private const string Config = """
+        [model]
+        kind = "map"
+        variables = ["x"]
+        parameters = ["r"]
+        [model.equations]
+        x = "r*x*(1 - x)"
+        [initial]
+        x = 0.3
+        [grid]
+        r = { from = 2.8, to = 4.1, steps = 5000 }
+        [analysis]
+        transient = 100
+        measure = 512
+        lyapunov = "largest"
+        max_period = 256
+        samples = 512
+        """;
+
+    [Theory]
+    [InlineData("")]
+    [InlineData("transient_check = true")] // no block kernel: point by point
+    public async Task Chunk_IsWrittenInRowGroups_HoldingTheRowsOfThePartWrittenWhole(string analysis)
+    {
+        var folder = Folder();
+        try
+        {
+            var run = Create(folder, Config + "\n" + analysis, chunkSize: 5000);
+            var context = new RunContext(run);
+            var group = context.GroupRows;
+            Assert.InRange(group, 32, 2499);
+            Assert.Equal(5000, await ChunkRunner.RunAsync(context, 0, null, CancellationToken.None));
+
+            var (whole, _) = ChunkRunner.ComputeSample(context.Spec, context.Model, Enumerable.Range(0, 5000).Select(i => (long)i).ToList());
+            using var stream = new MemoryStream();
+            PartFile.Write(stream, context.Schema, whole, new Dictionary<string, string>());
+            var expected = ReadIndependently(stream.ToArray());
+            var streamed = ReadIndependently(run.PartPath(0));
+
+            Assert.Equal([5000], expected.GroupRows);
+            Assert.Equal([group, group, 5000 - (2 * group)], streamed.GroupRows);
+            Assert.Equal(expected.Keys, streamed.Keys);
+            foreach (var name in expected.Keys)
+            {
+                Assert.Equal(Bits(expected[name]), Bits(streamed[name]));
+            }
+
+            // The footer's counts are those of all the rows, not of the last row group.
+            var tally = PartTally.Of(whole);
+            var kept = Assert.Single(context.WrittenTallies).Value;
+            Assert.Equal(tally.ToJson(), kept.ToJson());
+            var summary = await RunSummary.ReadAsync(run);
+            Assert.Equal(5000, summary.PointsDone);
+            Assert.Equal(tally.Regimes, summary.Regimes);
+            Assert.True(tally.Regimes.Count >= 3, string.Join(", ", tally.Regimes.Keys));
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Fact]
+    public async Task Chunk_StoppedAfterItsFirstRowGroup_LeavesNoFileInTheParts()
+    {
+        var folder = Folder();
+        try
+        {
+            var run = Create(folder, Config, chunkSize: 5000);
+            var context = new RunContext(run);
+            using var stop = new CancellationTokenSource();
+            var done = 0L;
+            await Assert.ThrowsAnyAsync<OperationCanceledException>(() => ChunkRunner.RunAsync(
+                context,
+                0,
+                points =>
+                {
+                    done += points;
+                    if (done > context.GroupRows + 100)
+                    {
+                        stop.Cancel();
+                    }
+                },
+                stop.Token));
+
+            Assert.True(done > context.GroupRows, $"stopped after {done} points");
+            Assert.Empty(Directory.EnumerateFileSystemEntries(run.PartsPath));
+
+            // The columns went back to the run: the chunk computed again writes the whole part.
+            Assert.Equal(5000, await ChunkRunner.RunAsync(context, 0, null, CancellationToken.None));
+            Assert.Equal(5000, ReadIndependently(run.PartPath(0)).GroupRows.Sum());
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Theory]
+    [InlineData(1, 8, 64)]
+    [InlineData(1, 512, 256)]
+    [InlineData(3, 4096, 2048)]
+    [InlineData(2, 0, 16)]
+    public void GroupRows_KeepARowGroupsColumnsWithinTheirBudget_InWholeBlocks(int variables, int samples, int maxPeriod)
+    {
+        var names = new[] { "x", "y", "z" }.Take(variables).ToArray();
+        var spec = SpecReader.Parse(
+            $$"""
+            [model]
+            kind = "map"
+            variables = [{{string.Join(", ", names.Select(n => $"\"{n}\""))}}]
+            parameters = ["r"]
+            [model.equations]
+            {{string.Join("\n", names.Select(n => $"{n} = \"r*{n}*(1 - {n})\""))}}
+            [initial]
+            {{string.Join("\n", names.Select(n => $"{n} = 0.3"))}}
+            [grid]
+            r = { from = 2.8, to = 4.1, steps = 100 }
+            [analysis]
+            measure = {{2 * maxPeriod}}
+            max_period = {{maxPeriod}}
+            samples = {{samples}}
+            """,
+            "groups.toml");
+        var rows = ChunkColumns.GroupRows(spec);
+
+        // Whole blocks of 32 points (the one-variable map kernel's; the other block analyzers take 4), never fewer.
+        Assert.Equal(0, rows % 32);
+        Assert.InRange(rows, 32, ChunkColumns.MaxGroupRows);
+
+        // What the columns of a row group really take, measured by the collector.
+        var before = GC.GetAllocatedBytesForCurrentThread();
+        var columns = ChunkColumns.For(spec, rows);
+        var bytes = GC.GetAllocatedBytesForCurrentThread() - before;
+        Assert.Equal(rows, columns.Capacity);
+        Assert.True(bytes <= ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
+
+        // As many rows as the budget allows: either the most a group holds, or another block would not fit.
+        if (rows < ChunkColumns.MaxGroupRows)
+        {
+            Assert.True(bytes * (rows + 32) / rows > ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
+        }
+    }
+
+    private static string Folder() => Path.Combine(Path.GetTempPath(), $"sweeps-stream-{Guid.NewGuid():N}");
+
+    private static RunDirectory Create(string folder, string config, long chunkSize) =>
+        RunDirectory.CreateOrResume(Path.Combine(folder, "run"), SpecReader.Parse(config, "stream.toml"), config, [], chunkSize, TimeProvider.System).Run;
+}
