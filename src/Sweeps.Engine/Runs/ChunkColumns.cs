@@ -27,7 +27,7 @@ internal sealed class ChunkColumns
         Lyapunov = Columns(dimension, capacity);
         LyapunovError = Columns(dimension, capacity);
         Final = Columns(dimension, capacity);
-        ReasonBytes = new ArrayBufferWriter<byte>(capacity);
+        ReasonBytes = new ArrayBufferWriter<byte>(Math.Max(1, capacity));
         ReasonStart = new int[capacity];
         ReasonLength = new int[capacity];
     }

@@ -5,9 +5,9 @@ using Parquet;
 namespace Sweeps.Engine.Runs;
 
 /// <summary>
-/// A whole run as one file, for tools that want one: a merged Parquet file (one row group per part,
-/// same columns and metadata) or CSV. Streams part by part in point order, so memory stays bounded by
-/// one chunk whatever the size of the run.
+/// A whole run as one file, for tools that want one: a merged Parquet file (the parts' row groups in point order, same
+/// columns and metadata, written by the parts' own writer) or CSV. Streams a row group at a time, so memory stays bounded
+/// by one row group whatever the size of the run or the samples per point.
 /// </summary>
 public static class RunExport
 {
@@ -19,16 +19,25 @@ public static class RunExport
         var rows = 0L;
         try
         {
-            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write))
+            await using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None, 1 << 16))
             {
-                await using var writer = await ParquetWriter.CreateAsync(schema.Schema, stream, PartWriter.Options(), false, token);
-                writer.CustomMetadata = await MetadataAsync(parts, token);
+                using var file = new Columnar.ColumnarFile(stream);
                 foreach (var part in parts)
                 {
-                    var columns = await PartReader.ReadAsync(part, schema, token);
-                    await PartWriter.WriteRowGroupAsync(writer, schema, columns, token);
-                    rows += columns.Count;
+                    await foreach (var columns in PartReader.ReadGroupsAsync(part, schema, token))
+                    {
+                        PartFile.WriteRowGroup(file, schema, columns);
+                        rows += columns.Count;
+                    }
                 }
+
+                if (parts.Count == 0)
+                {
+                    // A run with no part yet: its columns, no rows.
+                    PartFile.WriteRowGroup(file, schema, new ChunkColumns(0, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0, schema.HasBranches));
+                }
+
+                file.Finish(await MetadataAsync(parts, token), PartFile.CreatedBy);
             }
 
             File.Move(temporary, path, overwrite: true);
@@ -60,44 +69,46 @@ public static class RunExport
         var line = new StringBuilder();
         foreach (var part in Parts(run))
         {
-            var columns = await PartReader.ReadAsync(part, schema, token);
-            var samples = new SampleCursor(columns);
-            var backwardSamples = columns.Backward is { } back ? new SampleCursor(back) : null;
-            for (var row = 0; row < columns.Count; row++)
+            await foreach (var columns in PartReader.ReadGroupsAsync(part, schema, token))
             {
-                line.Clear();
-                line.Append(columns.Point[row].ToString(CultureInfo.InvariantCulture));
-                foreach (var axis in columns.Axis)
+                var samples = new SampleCursor(columns);
+                var backwardSamples = columns.Backward is { } back ? new SampleCursor(back) : null;
+                for (var row = 0; row < columns.Count; row++)
                 {
-                    line.Append(',').Append(Number(axis[row]));
-                }
+                    line.Clear();
+                    line.Append(columns.Point[row].ToString(CultureInfo.InvariantCulture));
+                    foreach (var axis in columns.Axis)
+                    {
+                        line.Append(',').Append(Number(axis[row]));
+                    }
 
-                line.Append(',').Append(columns.Regime[row]).Append(',').Append(columns.Period[row].ToString(CultureInfo.InvariantCulture));
-                line.Append(',').Append(Number(columns.PeriodTime[row]));
-                line.Append(',').Append(columns.Attractors[row].ToString(CultureInfo.InvariantCulture));
-                foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final).Concat(columns.Indicators))
-                {
-                    line.Append(',').Append(Number(column[row]));
-                }
-
-                line.Append(',').Append(Quote(columns.Reason(row))).Append(',');
-                samples.AppendRow(line);
-                if (columns.Backward is { } backward)
-                {
-                    line.Append(',').Append(columns.Hysteresis[row] ? "true" : "false");
-                    line.Append(',').Append(backward.Regime[row]).Append(',').Append(backward.Period[row].ToString(CultureInfo.InvariantCulture));
-                    line.Append(',').Append(Number(backward.Lyapunov[0][row]));
-                    foreach (var column in backward.Final)
+                    line.Append(',').Append(columns.Regime[row]).Append(',').Append(columns.Period[row].ToString(CultureInfo.InvariantCulture));
+                    line.Append(',').Append(Number(columns.PeriodTime[row]));
+                    line.Append(',').Append(columns.Attractors[row].ToString(CultureInfo.InvariantCulture));
+                    foreach (var column in columns.Lyapunov.Concat(columns.LyapunovError).Concat(columns.Final).Concat(columns.Indicators))
                     {
                         line.Append(',').Append(Number(column[row]));
                     }
 
-                    line.Append(',');
-                    backwardSamples!.AppendRow(line);
-                }
+                    line.Append(',').Append(Quote(columns.Reason(row))).Append(',');
+                    samples.AppendRow(line);
+                    if (columns.Backward is { } backward)
+                    {
+                        line.Append(',').Append(columns.Hysteresis[row] ? "true" : "false");
+                        line.Append(',').Append(backward.Regime[row]).Append(',').Append(backward.Period[row].ToString(CultureInfo.InvariantCulture));
+                        line.Append(',').Append(Number(backward.Lyapunov[0][row]));
+                        foreach (var column in backward.Final)
+                        {
+                            line.Append(',').Append(Number(column[row]));
+                        }
 
-                await output.WriteLineAsync(line.ToString());
-                rows++;
+                        line.Append(',');
+                        backwardSamples!.AppendRow(line);
+                    }
+
+                    await output.WriteLineAsync(line.ToString());
+                    rows++;
+                }
             }
         }
 

@@ -113,6 +113,58 @@ public sealed class PartStreamTests
         }
     }
 
+    [Fact]
+    public async Task Export_WritesThePartsRowGroupsInPointOrder_WithTheirRowsAndTheRunsMetadata()
+    {
+        var folder = Folder();
+        try
+        {
+            var run = Create(folder, Config.Replace("steps = 5000", "steps = 7000"), chunkSize: 5000);
+            var context = new RunContext(run);
+            var merged = Path.Combine(folder, "all.parquet");
+
+            // A run with no part yet: its columns, no rows.
+            Assert.Equal(0, await RunExport.ParquetAsync(run, merged, CancellationToken.None));
+            var empty = ReadIndependently(merged);
+            Assert.Equal(0, empty.GroupRows.Sum());
+            Assert.Contains("samples", empty.Keys);
+
+            foreach (var chunk in run.MissingChunks().ToList())
+            {
+                await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
+            }
+
+            Assert.Equal(7000, await RunExport.ParquetAsync(run, merged, CancellationToken.None));
+            var (first, second) = (ReadIndependently(run.PartPath(0)), ReadIndependently(run.PartPath(1)));
+            var all = ReadIndependently(merged);
+            Assert.Equal(first.GroupRows.Concat(second.GroupRows), all.GroupRows);
+            Assert.True(all.GroupRows.Count >= 4, string.Join(", ", all.GroupRows)); // parts of several row groups each
+            foreach (var name in first.Keys)
+            {
+                Assert.Equal(Bits(first[name].Concat(second[name])), Bits(all[name]));
+            }
+
+            using (var reader = new ParquetSharp.ParquetFileReader(merged))
+            {
+                var metadata = reader.FileMetaData.KeyValueMetadata;
+                Assert.Equal(run.Manifest.SpecHash, metadata["sweeps.spec_hash"]);
+                Assert.DoesNotContain(PartTally.Key, metadata.Keys);
+            }
+
+            using var csv = new StringWriter();
+            Assert.Equal(7000, await RunExport.CsvAsync(run, csv, CancellationToken.None));
+            var lines = csv.ToString().Split('\n', StringSplitOptions.RemoveEmptyEntries);
+            Assert.Equal(Enumerable.Range(0, 7000).Select(p => p.ToString(System.Globalization.CultureInfo.InvariantCulture)), lines.Skip(1).Select(l => l[..l.IndexOf(',')]));
+            var samples = all["samples"].Select(v => ((double[]?)v)?.Length ?? 0).ToList();
+            Assert.Contains(512, samples);
+            Assert.Equal(samples, lines.Skip(1).Select(l => l[(l.LastIndexOf(',') + 1)..]).Select(f => f.Length == 0 ? 0 : f.Split(';').Length));
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
     [Theory]
     [InlineData(1, 8, 64)]
     [InlineData(1, 512, 256)]
