@@ -20,8 +20,7 @@ public static class ChunkRunner
 
     /// <summary>
     /// Runs the chunk unless its part already exists; returns the number of points computed. The part is written as the
-    /// points are computed, a row group at a time (<see cref="PartStream"/>); a continuation sweep's lines, computed
-    /// back and forth, are written when the chunk is done.
+    /// points are computed, a row group at a time (<see cref="PartStream"/>).
     /// </summary>
     public static async Task<long> RunAsync(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
     {
@@ -32,16 +31,6 @@ public static class ChunkRunner
             return 0;
         }
 
-        if (context.Spec.Grid.Follow is not null)
-        {
-            var (lines, lineAttractors) = ComputeLines(context, chunk, progress, token);
-            await PartWriter.WriteAsync(run.AttractorPartPath(chunk), context.AttractorSchema, lineAttractors, context.Metadata, token);
-            var lineTally = PartTally.Of(lines);
-            await PartWriter.WriteAsync(path, context.Schema, lines, lineTally, context.Metadata, token);
-            context.Wrote(chunk, lineTally);
-            return lines.Count;
-        }
-
         var manifest = run.Manifest;
         var first = chunk * manifest.ChunkSize;
         var count = (int)(Math.Min(manifest.Points, first + manifest.ChunkSize) - first);
@@ -49,7 +38,9 @@ public static class ChunkRunner
         try
         {
             using var part = new PartStream(path, context.Schema, context.GroupRows);
-            var (rest, attractors) = ComputePoints(context.Model, context.WritesAttractors, context.Spec, columns, count, i => first + i, part, progress, token);
+            var (rest, attractors) = context.Spec.Grid.Follow is null
+                ? ComputePoints(context.Model, context.WritesAttractors, context.Spec, columns, count, i => first + i, part, progress, token)
+                : ComputeLines(context, chunk, columns, part, progress, token);
             part.Append(rest);
 
             // The attractor part first: a chunk whose main part exists is complete in both tables. With one start per
@@ -251,7 +242,12 @@ public static class ChunkRunner
     /// (neither unresolved) the point is flagged as hysteretic. A point after a divergent one starts afresh
     /// from its own initial state. The row holds the forward branch, the backward_ columns the other.
     /// </summary>
-    private static (ChunkColumns Points, AttractorColumns Attractors) ComputeLines(RunContext context, long chunk, Action<long>? progress, CancellationToken token)
+    /// <remarks>
+    /// Lines go to <paramref name="part"/> as row groups of whole lines (<see cref="PartStream.GroupRows"/>), the rows
+    /// after the last full group are left in the columns returned.
+    /// </remarks>
+    private static (ChunkColumns Points, AttractorColumns Attractors) ComputeLines(
+        RunContext context, long chunk, ChunkColumns columns, PartStream part, Action<long>? progress, CancellationToken token)
     {
         var spec = context.Spec;
         var grid = spec.Grid;
@@ -262,7 +258,6 @@ public static class ChunkRunner
         var lastLine = Math.Min(grid.LineCount, firstLine + linesPerChunk);
         var analyzer = Probing.AnalyzerFactory.Create(spec, context.Model);
         var dimension = spec.Model.Variables.Count;
-        var columns = ChunkColumns.For(spec, (int)((lastLine - firstLine) * length), branches: true);
         var attractors = new AttractorColumns(dimension);
         var source = new Specs.PointSource(spec);
         var forward = new PointResult[length];
@@ -286,6 +281,12 @@ public static class ChunkRunner
             {
                 source.Fill(points[step]);
                 backward[step] = previous = Analyze(analyzer, Continued(previous, spec) ?? source.Initial, source.Parameters);
+            }
+
+            if (columns.Count + length > part.GroupRows)
+            {
+                part.Append(columns);
+                columns.Clear();
             }
 
             for (var step = 0L; step < length; step++)

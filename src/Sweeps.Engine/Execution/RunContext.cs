@@ -63,7 +63,7 @@ public sealed class RunContext
     private readonly ConcurrentBag<ChunkColumns> spareColumns = [];
 
     /// <summary>Rows in a row group of this run's parts (<see cref="ChunkColumns.GroupRows"/>).</summary>
-    internal int GroupRows { get; }
+    internal int GroupRows { get; init; }
 
     /// <summary>
     /// Empty columns for a row group of a chunk of <paramref name="count"/> points (the chunk's rows, or
@@ -78,7 +78,7 @@ public sealed class RunContext
             return columns;
         }
 
-        return ChunkColumns.For(Spec, rows);
+        return ChunkColumns.For(Spec, rows, branches: Spec.Grid.Follow is not null);
     }
 
     private readonly ConcurrentDictionary<long, PartTally> written = new();
@@ -94,7 +94,7 @@ public sealed class RunContext
     /// <summary>Gives back columns whose part is written (their contents are no longer needed).</summary>
     internal void ReturnColumns(ChunkColumns columns)
     {
-        if (columns.Backward is null && columns.Capacity == Math.Min(Run.Manifest.ChunkSize, GroupRows))
+        if (columns.Capacity == Math.Min(Run.Manifest.ChunkSize, GroupRows))
         {
             spareColumns.Add(columns);
         }

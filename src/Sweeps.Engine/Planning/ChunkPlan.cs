@@ -7,10 +7,8 @@ namespace Sweeps.Engine.Planning;
 /// cost of a job — the queue's bookkeeping and the part file, about 3 ms on the embedded queue (measured: a 2000-point
 /// flow sweep in 32 chunks took 70 ms longer than in 8) and more on PostgreSQL — a few per cent of the work:
 /// <see cref="EmbeddedMinSeconds"/> for <c>run</c>, whose short sweeps need the smaller chunks to keep both workers
-/// busy to the end, <see cref="MinSeconds"/> for a shared queue. A chunk also holds at most <see cref="MaxChunk"/> points: a continuation
-/// sweep's columns live in memory until its part is written, and at an eighth of a million rows two workers stay well
-/// under a gigabyte (measured: a 10^8-point map sweep, see docs/performance.md); other chunks are written a row group
-/// at a time as they are computed.
+/// busy to the end, <see cref="MinSeconds"/> for a shared queue. A chunk also holds at most <see cref="MaxChunk"/> points (a chunk's part
+/// is written a row group at a time as it is computed, so the cap bounds the part files rather than memory).
 /// Where points are analysed in blocks (lanes), a chunk holds whole blocks below the cap, so that no block but the
 /// grid's last runs with idle lanes.
 /// </summary>

@@ -48,8 +48,9 @@ internal sealed class ChunkColumns
     /// <summary>
     /// Rows in a row group of a streamed part of <paramref name="spec"/> (<see cref="PartStream"/>): as many as fit in
     /// <see cref="GroupBytes"/> of columns, at most <see cref="MaxGroupRows"/>, in whole blocks of 32 points (every
-    /// block analyzer's block divides it, so row groups end where blocks do). A function of the spec alone: the same
-    /// chunk is always cut the same way, and its part is the same bytes.
+    /// block analyzer's block divides it, so row groups end where blocks do) — for a continuation sweep, whose rows carry
+    /// both branches, in whole lines along the followed axis (at least one, however long). A function of the spec alone:
+    /// the same chunk is always cut the same way, and its part is the same bytes.
     /// </summary>
     public static int GroupRows(Specs.SweepSpec spec)
     {
@@ -58,7 +59,14 @@ internal sealed class ChunkColumns
         var row = sizeof(long) + (sizeof(double) * spec.Grid.Axes.Count) + IntPtr.Size + sizeof(int) + sizeof(double) + sizeof(int)
             + (3 * sizeof(double) * n) + (spec.Analysis.Indicators ? 3 * sizeof(double) : 0) + (3 * sizeof(int))
             + (sizeof(double) * spec.Analysis.Samples * n);
-        return (int)Math.Clamp(GroupBytes / row / block * block, block, MaxGroupRows);
+        if (spec.Grid.Follow is null)
+        {
+            return (int)Math.Clamp(GroupBytes / row / block * block, block, MaxGroupRows);
+        }
+
+        // The backward branch's columns are as large as the forward one's, and a flag besides.
+        var line = spec.Grid.LineLength;
+        return checked((int)(Math.Max(1, Math.Min(GroupBytes / ((2 * row) + 1), MaxGroupRows) / line) * line));
     }
 
     public int Count { get; private set; }

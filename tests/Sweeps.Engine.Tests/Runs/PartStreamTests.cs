@@ -165,12 +165,51 @@ public sealed class PartStreamTests
         }
     }
 
+    [Fact]
+    public async Task ContinuationChunk_IsWrittenInRowGroupsOfWholeLines_HoldingTheRowsOfThePartWrittenWhole()
+    {
+        // Lines of 250 points along r, both directions; with 512 samples a row group holds a few lines, a chunk twelve.
+        var config = Config.Replace("r = { from = 2.8, to = 4.1, steps = 5000 }", "r = { from = 2.8, to = 4.1, steps = 250 }\nx = { from = 0.2, to = 0.7, steps = 12 }\nfollow = \"r\"")
+            .Replace("[initial]\nx = 0.3\n", "");
+        var folder = Folder();
+        try
+        {
+            var streamed = Create(Path.Combine(folder, "streamed"), config, chunkSize: 3000);
+            var whole = Create(Path.Combine(folder, "whole"), config, chunkSize: 3000);
+            var context = new RunContext(streamed);
+            Assert.InRange(context.GroupRows, 250, 1500);
+            Assert.Equal(0, context.GroupRows % 250);
+            Assert.Equal(3000, await ChunkRunner.RunAsync(context, 0, null, CancellationToken.None));
+            Assert.Equal(3000, await ChunkRunner.RunAsync(new RunContext(whole) { GroupRows = int.MaxValue }, 0, null, CancellationToken.None));
+
+            var (a, b) = (ReadIndependently(streamed.PartPath(0)), ReadIndependently(whole.PartPath(0)));
+            Assert.Equal([3000], b.GroupRows);
+            Assert.Equal(Enumerable.Repeat(context.GroupRows, 3000 / context.GroupRows), a.GroupRows.Take(3000 / context.GroupRows));
+            Assert.Equal(3000, a.GroupRows.Sum());
+            Assert.Contains("backward_samples", a.Keys);
+            foreach (var name in b.Keys)
+            {
+                Assert.Equal(Bits(b[name]), Bits(a[name]));
+            }
+
+            Assert.Equal(File.ReadAllBytes(whole.AttractorPartPath(0)), File.ReadAllBytes(streamed.AttractorPartPath(0)));
+            Assert.Equal((await RunSummary.ReadAsync(whole)).HysteresisPoints, (await RunSummary.ReadAsync(streamed)).HysteresisPoints);
+            Assert.Equal(Bits(b["hysteresis"]).Count(h => h == "True"), (await RunSummary.ReadAsync(streamed)).HysteresisPoints);
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
     [Theory]
-    [InlineData(1, 8, 64)]
-    [InlineData(1, 512, 256)]
-    [InlineData(3, 4096, 2048)]
-    [InlineData(2, 0, 16)]
-    public void GroupRows_KeepARowGroupsColumnsWithinTheirBudget_InWholeBlocks(int variables, int samples, int maxPeriod)
+    [InlineData(1, 8, 64, false)]
+    [InlineData(1, 512, 256, false)]
+    [InlineData(3, 4096, 2048, false)]
+    [InlineData(2, 0, 16, false)]
+    [InlineData(1, 8, 64, true)]
+    [InlineData(2, 1024, 512, true)]
+    public void GroupRows_KeepARowGroupsColumnsWithinTheirBudget_InWholeBlocksOrLines(int variables, int samples, int maxPeriod, bool follow)
     {
         var names = new[] { "x", "y", "z" }.Take(variables).ToArray();
         var spec = SpecReader.Parse(
@@ -185,6 +224,7 @@ public sealed class PartStreamTests
             {{string.Join("\n", names.Select(n => $"{n} = 0.3"))}}
             [grid]
             r = { from = 2.8, to = 4.1, steps = 100 }
+            {{(follow ? "follow = \"r\"" : "")}}
             [analysis]
             measure = {{2 * maxPeriod}}
             max_period = {{maxPeriod}}
@@ -193,21 +233,24 @@ public sealed class PartStreamTests
             "groups.toml");
         var rows = ChunkColumns.GroupRows(spec);
 
-        // Whole blocks of 32 points (the one-variable map kernel's; the other block analyzers take 4), never fewer.
-        Assert.Equal(0, rows % 32);
-        Assert.InRange(rows, 32, ChunkColumns.MaxGroupRows);
+        // Whole blocks of 32 points (the one-variable map kernel's; the other block analyzers take 4), never fewer — or
+        // whole lines of a continuation sweep (100 points here).
+        var unit = follow ? 100 : 32;
+        Assert.Equal(0, rows % unit);
+        Assert.InRange(rows, unit, ChunkColumns.MaxGroupRows);
 
         // What the columns of a row group really take, measured by the collector.
         var before = GC.GetAllocatedBytesForCurrentThread();
-        var columns = ChunkColumns.For(spec, rows);
+        var columns = ChunkColumns.For(spec, rows, branches: follow);
         var bytes = GC.GetAllocatedBytesForCurrentThread() - before;
         Assert.Equal(rows, columns.Capacity);
         Assert.True(bytes <= ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
 
-        // As many rows as the budget allows: either the most a group holds, or another block would not fit.
-        if (rows < ChunkColumns.MaxGroupRows)
+        // As many rows as the budget allows: either the most a group holds, or another block (line) would not fit.
+        // (A row's size is estimated from the column types: within a few per cent of what the collector counts.)
+        if (rows + unit <= ChunkColumns.MaxGroupRows)
         {
-            Assert.True(bytes * (rows + 32) / rows > ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
+            Assert.True(bytes * (rows + unit) / rows > 0.95 * ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
         }
     }
 
