@@ -62,22 +62,40 @@ public sealed class RunTable
         ReadAsync(run, Path.Combine(run.LevelPath(level), "parts"), samples, attractors: false, token);
 
     /// <summary>
-    /// The run's parts one table each, in part order — for a reader that needs every row once but never all of them at
-    /// a time (a bifurcation diagram of 10^8 points). With <paramref name="pointsAndSamplesOnly"/> only the point indices
-    /// and the samples are read (a first pass after the samples' range); the other columns are then left at their
-    /// default values.
+    /// The run's parts a table at a time, in part order — for a reader that needs every row once but never all of them
+    /// at a time (a bifurcation diagram of 10^8 points). A table holds a part's row groups up to
+    /// <see cref="BatchSamples"/> samples' entries (at least one row group), a whole part unless samples make it large:
+    /// the samples of a part of a thousand samples a point are a gigabyte. With <paramref name="pointsAndSamplesOnly"/>
+    /// only the point indices and the samples are read (a first pass after the samples' range); the other columns are
+    /// then left at their default values.
     /// </summary>
     public static IAsyncEnumerable<RunTable> ReadEachPartAsync(RunDirectory run, bool samples, bool pointsAndSamplesOnly = false, CancellationToken token = default) =>
         ReadEachLevelPartAsync(run, 0, samples, pointsAndSamplesOnly, token);
 
     /// <summary>As <see cref="ReadEachPartAsync"/>, the parts of refinement level <paramref name="level"/> (0: the run's own).</summary>
-    public static async IAsyncEnumerable<RunTable> ReadEachLevelPartAsync(
-        RunDirectory run, int level, bool samples, bool pointsAndSamplesOnly = false, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
+    public static IAsyncEnumerable<RunTable> ReadEachLevelPartAsync(
+        RunDirectory run, int level, bool samples, bool pointsAndSamplesOnly = false, CancellationToken token = default) =>
+        ReadEachLevelPartAsync(run, level, samples, pointsAndSamplesOnly, BatchSamples, token);
+
+    /// <summary>As above, with tables of at most <paramref name="batchSamples"/> samples' entries (unless a row group has more).</summary>
+    internal static async IAsyncEnumerable<RunTable> ReadEachLevelPartAsync(
+        RunDirectory run, int level, bool samples, bool pointsAndSamplesOnly, long batchSamples, [System.Runtime.CompilerServices.EnumeratorCancellation] CancellationToken token = default)
     {
         var layout = Layout.Of(run);
+        var buffers = new SampleBuffers(0);
         foreach (var part in PartsIn(level == 0 ? run.PartsPath : Path.Combine(run.LevelPath(level), "parts")))
         {
-            yield return await ReadAsync(run, layout, [part], samples, attractors: false, token, pointsAndSamplesOnly);
+            // One reader for all of a part's row groups: a part's footer grows with its row groups, and parsing it for each
+            // of them took longer than reading them (a part of a thousand samples a point holds a hundred row groups).
+            // The samples' read buffers too (tens of megabytes for a row group of a thousand samples a point: new ones for
+            // every row group doubled the time of a bifurcation diagram).
+            await using var reader = await ParquetReader.CreateAsync(part, null, token);
+            for (var first = 0; first < reader.RowGroupCount;)
+            {
+                var count = samples ? Batch(reader, first, batchSamples) : reader.RowGroupCount - first;
+                yield return await ReadAsync(run, layout, [part], samples, attractors: false, token, pointsAndSamplesOnly, groups: (first, count), open: reader, buffers: buffers);
+                first += count;
+            }
         }
     }
 
@@ -96,6 +114,33 @@ public sealed class RunTable
         }
     }
 
+    /// <summary>The most samples' entries (values and empty lists) a table read part by part holds, unless a row group has more.</summary>
+    internal const long BatchSamples = 1 << 22;
+
+    /// <summary>How many row groups from <paramref name="first"/> on make the next table: up to <paramref name="most"/> entries, at least one group.</summary>
+    private static int Batch(ParquetReader reader, int first, long most)
+    {
+        var (count, entries) = (0, 0L);
+        var field = SamplesField(reader.Schema.DataFields, "samples");
+        while (first + count < reader.RowGroupCount)
+        {
+            using var group = reader.OpenRowGroupReader(first + count);
+            entries += group.GetMetadata(field)!.MetaData!.NumValues;
+            if (count > 0 && entries > most)
+            {
+                break;
+            }
+
+            count++;
+        }
+
+        return count;
+    }
+
+    /// <summary>The row groups of a part to read: all, or the ones asked for.</summary>
+    private static IEnumerable<int> Groups(ParquetReader reader, (int First, int Count)? groups) =>
+        groups is { } some ? Enumerable.Range(some.First, some.Count) : Enumerable.Range(0, reader.RowGroupCount);
+
     private static string[] PartsIn(string folder) =>
         Directory.Exists(folder) ? Directory.EnumerateFiles(folder, "part-*.parquet").Order(StringComparer.Ordinal).ToArray() : [];
 
@@ -112,8 +157,12 @@ public sealed class RunTable
         }
     }
 
+    /// <param name="groups">Only these row groups of each part (all of them when null).</param>
+    /// <param name="open">The reader of the one part given, kept open by the caller (each part is opened here otherwise).</param>
+    /// <param name="buffers">Buffers for reading the samples, kept by the caller across calls (made here otherwise).</param>
     private static async Task<RunTable> ReadAsync(
-        RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token, bool pointsAndSamplesOnly = false, AttractorLabels.Labeller? labeller = null)
+        RunDirectory run, Layout layout, string[] parts, bool samples, bool attractors, CancellationToken token, bool pointsAndSamplesOnly = false,
+        AttractorLabels.Labeller? labeller = null, (int First, int Count)? groups = null, ParquetReader? open = null, SampleBuffers? buffers = null)
     {
         var (axisNames, branches, dimension) = (layout.AxisNames, layout.Branches, layout.Dimension);
 
@@ -122,14 +171,15 @@ public sealed class RunTable
         var (total, levels, values) = (0L, 0L, 0L);
         foreach (var part in parts)
         {
-            await using var reader = await ParquetReader.CreateAsync(part, null, token);
-            for (var g = 0; g < reader.RowGroupCount; g++)
+            await using var opened = open is null ? await ParquetReader.CreateAsync(part, null, token) : null;
+            var reader = open ?? opened!;
+            foreach (var g in Groups(reader, groups))
             {
-                using var group = reader.OpenRowGroupReader(g);
-                total += group.RowCount;
+                using var rowGroup = reader.OpenRowGroupReader(g);
+                total += rowGroup.RowCount;
                 if (samples)
                 {
-                    var entries = group.GetMetadata(SamplesField(reader.Schema.DataFields, "samples"))!.MetaData!.NumValues;
+                    var entries = rowGroup.GetMetadata(SamplesField(reader.Schema.DataFields, "samples"))!.MetaData!.NumValues;
                     (levels, values) = (Math.Max(levels, entries), values + (entries / dimension));
                 }
             }
@@ -144,45 +194,46 @@ public sealed class RunTable
         var hysteresis = branches ? new bool[rows] : null;
         var sampleRows = samples ? new RowValues.Builder(rows, values) : null;
         var backwardRows = branches && samples ? new RowValues.Builder(rows, values) : null;
-        var buffers = samples ? new SampleBuffers(checked((int)levels)) : null;
+        buffers = samples ? buffers ?? new SampleBuffers(checked((int)levels)) : null;
         var names = new Dictionary<string, string>(StringComparer.Ordinal);
         var at = 0;
         foreach (var part in parts)
         {
-            await using var reader = await ParquetReader.CreateAsync(part, null, token);
+            await using var opened = open is null ? await ParquetReader.CreateAsync(part, null, token) : null;
+            var reader = open ?? opened!;
             var fields = reader.Schema.DataFields;
             DataField Field(string name) => fields.First(f => f.Name == name);
-            for (var g = 0; g < reader.RowGroupCount; g++)
+            foreach (var g in Groups(reader, groups))
             {
-                using var group = reader.OpenRowGroupReader(g);
-                var count = (int)group.RowCount;
-                await group.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
+                using var rowGroup = reader.OpenRowGroupReader(g);
+                var count = (int)rowGroup.RowCount;
+                await rowGroup.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
                 for (var a = 0; a < axisNames.Count && !pointsAndSamplesOnly; a++)
                 {
-                    await group.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
+                    await rowGroup.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
                 }
 
                 if (!pointsAndSamplesOnly)
                 {
-                    await group.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
+                    await rowGroup.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
                     Share(regimes.AsSpan(at, count), names);
-                    await group.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
-                    await group.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
+                    await rowGroup.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
+                    await rowGroup.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
                 }
 
                 if (sampleRows is not null)
                 {
-                    await ReadSamples(group, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
+                    await ReadSamples(rowGroup, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
                 }
 
                 if (hysteresis is not null && !pointsAndSamplesOnly)
                 {
-                    await group.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
+                    await rowGroup.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
                 }
 
                 if (backwardRows is not null)
                 {
-                    await ReadSamples(group, SamplesField(fields, "backward_samples"), dimension, buffers!, backwardRows, token);
+                    await ReadSamples(rowGroup, SamplesField(fields, "backward_samples"), dimension, buffers!, backwardRows, token);
                 }
 
                 at += count;

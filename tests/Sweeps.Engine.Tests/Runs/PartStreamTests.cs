@@ -166,6 +166,54 @@ public sealed class PartStreamTests
     }
 
     [Fact]
+    public async Task ReadEachPart_GivesTablesOfWholeRowGroups_EveryRowOnceAsTheWholeTableHasIt()
+    {
+        var folder = Folder();
+        try
+        {
+            var run = Create(folder, Config, chunkSize: 2500);
+            var context = new RunContext(run);
+            foreach (var chunk in run.MissingChunks().ToList())
+            {
+                await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
+            }
+
+            var whole = await RunTable.ReadAsync(run, samples: true);
+
+            // Two parts of two row groups each: a table a part (1.3 million samples' entries each, under the batch), or
+            // with a batch smaller than a row group's entries, a table a row group.
+            var group = context.GroupRows;
+            var parts = new List<RunTable>();
+            await foreach (var table in RunTable.ReadEachPartAsync(run, samples: true))
+            {
+                parts.Add(table);
+            }
+
+            Assert.Equal([2500, 2500], parts.Select(t => t.Count));
+            var tables = new List<RunTable>();
+            await foreach (var table in RunTable.ReadEachLevelPartAsync(run, 0, samples: true, pointsAndSamplesOnly: false, batchSamples: 1))
+            {
+                tables.Add(table);
+            }
+
+            Assert.Equal([group, 2500 - group, group, 2500 - group], tables.Select(t => t.Count));
+            Assert.Equal(whole.Point, parts.SelectMany(t => t.Point));
+            Assert.Equal(whole.Samples!.All.ToArray(), parts.SelectMany(t => t.Samples!.All.ToArray()));
+            Assert.Equal(whole.Point, tables.SelectMany(t => t.Point));
+            Assert.Equal(whole.Regime, tables.SelectMany(t => t.Regime));
+            Assert.Equal(whole.Lyapunov.Select(BitConverter.DoubleToInt64Bits), tables.SelectMany(t => t.Lyapunov).Select(BitConverter.DoubleToInt64Bits));
+            Assert.Equal(whole.Samples!.All.ToArray(), tables.SelectMany(t => t.Samples!.All.ToArray()));
+            Assert.Equal(
+                Enumerable.Range(0, whole.Count).Select(r => whole.Samples![r].Length),
+                tables.SelectMany(t => Enumerable.Range(0, t.Count).Select(r => t.Samples![r].Length)));
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Fact]
     public async Task ContinuationChunk_IsWrittenInRowGroupsOfWholeLines_HoldingTheRowsOfThePartWrittenWhole()
     {
         // Lines of 250 points along r, both directions; with 512 samples a row group holds a few lines, a chunk twelve.
