@@ -128,30 +128,34 @@ public sealed class AttractorLabels
         private async Task FromPointsAsync(string part, Dictionary<long, int> byPoint, CancellationToken token)
         {
             var n = spec.Model.Variables.Count;
-            var columns = await PartReader.ReadAsync(part, new PartSchema(spec), token);
-            var cursor = new ChunkColumns.SampleCursor(columns);
-            var samples = new List<double>();
-            for (var row = 0; row < columns.Count; row++)
-            {
-                cursor.Next(samples);
 
-                var states = Enumerable.Range(0, samples.Count / n).Select(i => samples.GetRange(i * n, n).ToArray()).ToList();
-                var period = columns.Period[row];
-                var cycle = period > 0 && states.Count >= period ? states.GetRange(states.Count - period, period) : [];
-                var final = columns.Final.Select(f => f[row]).ToArray();
-                var result = new PointResult(
-                    RegimeNames.TryParse(columns.Regime[row], out var regime) ? regime : Regime.Unresolved,
-                    period,
-                    [columns.Lyapunov[0][row]],
-                    [columns.LyapunovError[0][row]],
-                    double.NaN,
-                    final,
-                    cycle,
-                    null,
-                    null,
-                    [],
-                    Box: states.Count > 0 ? StateBox.Of(states) : null);
-                byPoint[columns.Point[row]] = catalog.Label(AttractorSignature.Of(result, spec.Analysis.Tolerance));
+            // A row group at a time: memory bounded by a row group, however many samples a point keeps.
+            await foreach (var columns in PartReader.ReadGroupsAsync(part, new PartSchema(spec), token))
+            {
+                var cursor = new ChunkColumns.SampleCursor(columns);
+                var samples = new List<double>();
+                for (var row = 0; row < columns.Count; row++)
+                {
+                    cursor.Next(samples);
+
+                    var states = Enumerable.Range(0, samples.Count / n).Select(i => samples.GetRange(i * n, n).ToArray()).ToList();
+                    var period = columns.Period[row];
+                    var cycle = period > 0 && states.Count >= period ? states.GetRange(states.Count - period, period) : [];
+                    var final = columns.Final.Select(f => f[row]).ToArray();
+                    var result = new PointResult(
+                        RegimeNames.TryParse(columns.Regime[row], out var regime) ? regime : Regime.Unresolved,
+                        period,
+                        [columns.Lyapunov[0][row]],
+                        [columns.LyapunovError[0][row]],
+                        double.NaN,
+                        final,
+                        cycle,
+                        null,
+                        null,
+                        [],
+                        Box: states.Count > 0 ? StateBox.Of(states) : null);
+                    byPoint[columns.Point[row]] = catalog.Label(AttractorSignature.Of(result, spec.Analysis.Tolerance));
+                }
             }
         }
     }
