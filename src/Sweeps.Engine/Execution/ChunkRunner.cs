@@ -71,13 +71,18 @@ public static class ChunkRunner
             return;
         }
 
-        var (columns, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, ChunkColumns.For(spec, points.Length), points.Length, i => points[i], null, null, token);
+        // Written as computed, a row group at a time, as a chunk's part is.
+        var groupRows = ChunkColumns.GroupRows(spec);
+        using var stream = new PartStream(path, context.Schema, groupRows);
+        var columns = ChunkColumns.For(spec, Math.Min(points.Length, groupRows));
+        var (rest, attractors) = ComputePoints(context.Model, context.WritesAttractors, spec, columns, points.Length, i => points[i], stream, null, token);
+        stream.Append(rest);
         if (context.WritesAttractors)
         {
             await PartWriter.WriteAsync(Path.Combine(folder, "attractors", Path.GetFileName(path)), context.AttractorSchema, attractors, context.Metadata, token);
         }
 
-        await PartWriter.WriteAsync(path, context.Schema, columns, context.Metadata, token);
+        stream.Commit(context.Metadata);
     }
 
     /// <summary>

@@ -4,10 +4,10 @@ namespace Sweeps.Engine.Runs;
 
 /// <summary>
 /// Writes columns held in memory as one Parquet file of one row group (Snappy): point parts with Sweeps' own column
-/// writer — those of refinement levels; a chunk's part is written as it is computed (<see cref="PartStream"/>) — and
-/// attractor parts with Parquet.Net. The file is written under a temporary
-/// name in the same folder and renamed into place, so readers and resumes never see a partial part.
-/// Nothing time-dependent goes into it: the same chunk always gives the same bytes.
+/// writer (the writer's warm-up and `check`'s size estimate; runs write their parts as they compute them,
+/// <see cref="PartStream"/>) and attractor parts with Parquet.Net. The file is written under a temporary name in the
+/// same folder and renamed into place, so readers and resumes never see a partial part. Nothing time-dependent goes
+/// into it: the same chunk always gives the same bytes.
 /// </summary>
 public static class PartWriter
 {
