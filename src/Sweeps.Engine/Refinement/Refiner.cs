@@ -87,8 +87,15 @@ public static class Refiner
     private static async Task ComputeAsync(
         RunContext context, Specs.SweepSpec levelSpec, long[] points, string folder, int workers, Action<long>? progress, CancellationToken token)
     {
-        Directory.CreateDirectory(Path.Combine(folder, "parts"));
-        Directory.CreateDirectory(Path.Combine(folder, "attractors"));
+        string[] folders = [Path.Combine(folder, "parts"), Path.Combine(folder, "attractors")];
+        foreach (var created in folders)
+        {
+            Directory.CreateDirectory(created);
+        }
+
+        // Refine computes its levels in this process alone: what a killed refine was writing is abandoned.
+        RunDirectory.RemoveAbandonedParts(folders);
+
         // The split depends on the level's points alone (never on the workers), so a resumed level finds its parts.
         var size = (int)Math.Clamp((points.Length + PartsPerLevel - 1) / PartsPerLevel, 1, context.Run.Manifest.ChunkSize);
         var parts = Enumerable.Range(0, (points.Length + size - 1) / size).ToArray();

@@ -178,9 +178,15 @@ public sealed class RunDirectory
     }
 
     /// <summary>Deletes temporary part files left by a process that was killed while writing them.</summary>
-    private void RemoveAbandonedParts()
+    private void RemoveAbandonedParts() => RemoveAbandonedParts([PartsPath, AttractorPartsPath]);
+
+    /// <summary>
+    /// Deletes the temporary part files in <paramref name="folders"/> (a part is written under a temporary name while
+    /// its chunk is computed, so a process killed mid-chunk leaves one behind). Only for a process that owns the folders.
+    /// </summary>
+    internal static void RemoveAbandonedParts(IEnumerable<string> folders)
     {
-        foreach (var folder in new[] { PartsPath, AttractorPartsPath })
+        foreach (var folder in folders.Where(Directory.Exists))
         {
             foreach (var temporary in Directory.EnumerateFiles(folder, "*.parquet.tmp-*"))
             {

@@ -114,6 +114,29 @@ public sealed class PartStreamTests
     }
 
     [Fact]
+    public async Task Refine_RemovesTheTemporaryPartsAKilledRefineLeftInItsLevel()
+    {
+        var folder = Folder();
+        try
+        {
+            var run = Create(folder, Config.Replace("steps = 5000", "steps = 101"), chunkSize: 101);
+            await ChunkRunner.RunAsync(new RunContext(run), 0, null, CancellationToken.None);
+            var abandoned = Path.Combine(run.LevelPath(1), "parts", "part-000000.parquet.tmp-0123");
+            Directory.CreateDirectory(Path.GetDirectoryName(abandoned)!);
+            File.WriteAllBytes(abandoned, [1, 2, 3]);
+
+            var reports = await Engine.Refinement.Refiner.RunAsync(run, 1, 1, null, CancellationToken.None);
+            Assert.True(Assert.Single(reports).Points > 0);
+            Assert.False(File.Exists(abandoned));
+            Assert.NotEmpty(Directory.EnumerateFiles(Path.Combine(run.LevelPath(1), "parts"), "part-*.parquet"));
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Fact]
     public async Task Export_WritesThePartsRowGroupsInPointOrder_WithTheirRowsAndTheRunsMetadata()
     {
         var folder = Folder();
