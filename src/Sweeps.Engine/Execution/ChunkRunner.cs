@@ -116,7 +116,7 @@ public static class ChunkRunner
 
     /// <summary>
     /// Computes <paramref name="count"/> points into <paramref name="columns"/>; with a <paramref name="part"/>, every
-    /// <see cref="PartStream.GroupRows"/> rows go to it as a row group and the columns are cleared, and the rows after the
+    /// <see cref="PartStream.GroupRows"/> rows go to it as a row group (which empties the columns), and the rows after the
     /// last full group are left in the columns returned.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
@@ -141,7 +141,6 @@ public static class ChunkRunner
             if (part is not null && columns.Count == part.GroupRows)
             {
                 part.Append(columns);
-                columns.Clear();
             }
 
             var point = pointAt(i);
@@ -205,7 +204,6 @@ public static class ChunkRunner
             {
                 // A group's rows are a whole number of blocks (ChunkColumns.GroupRows): it ends where a block does.
                 part.Append(columns);
-                columns.Clear();
             }
 
             source.Fill(lanes, pointAt, offset: i);
@@ -291,7 +289,6 @@ public static class ChunkRunner
             if (columns.Count + length > part.GroupRows)
             {
                 part.Append(columns);
-                columns.Clear();
             }
 
             for (var step = 0L; step < length; step++)

@@ -31,12 +31,13 @@ internal sealed class PartStream : IDisposable
     /// <summary>Rows in a row group: the columns are handed over (<see cref="Append"/>) when they hold this many.</summary>
     public int GroupRows { get; }
 
-    /// <summary>Writes the columns' rows as the part's next row group (the caller then clears them for the next rows).</summary>
+    /// <summary>Writes the columns' rows as the part's next row group and empties the columns for the next rows.</summary>
     public void Append(ChunkColumns columns)
     {
         PartFile.WriteRowGroup(file, schema, columns);
         var counts = PartTally.Of(columns);
         tally = tally?.Plus(counts) ?? counts;
+        columns.Clear();
     }
 
     /// <summary>Finishes the part (its footer carries <paramref name="metadata"/> and the counts) and puts it in place.</summary>
