@@ -36,6 +36,10 @@ internal sealed class ChunkColumns
     public static ChunkColumns For(Specs.SweepSpec spec, int capacity, bool branches = false) =>
         new(capacity, spec.Grid.Axes.Count, spec.Model.Variables.Count, spec.Analysis.Indicators, branches, spec.Analysis.Samples);
 
+    /// <summary>Columns for <paramref name="capacity"/> rows of a part of <paramref name="schema"/> (read back; the samples' list grows as needed).</summary>
+    public static ChunkColumns For(PartSchema schema, int capacity) =>
+        new(capacity, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0, schema.HasBranches);
+
     /// <summary>The most rows a row group of a streamed part holds (a page of a numeric column: <see cref="Columnar.ColumnarFile.PageValues"/>).</summary>
     public const int MaxGroupRows = Columnar.ColumnarFile.PageValues;
 

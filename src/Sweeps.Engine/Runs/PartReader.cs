@@ -11,7 +11,7 @@ internal static class PartReader
     {
         await using var reader = await ParquetReader.CreateAsync(path, null, token);
         var rows = (int)Enumerable.Range(0, reader.RowGroupCount).Sum(g => reader.OpenRowGroupReader(g).RowCount);
-        var columns = New(schema, rows);
+        var columns = ChunkColumns.For(schema, rows);
         var offset = 0;
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
@@ -36,16 +36,13 @@ internal static class PartReader
         {
             using var group = reader.OpenRowGroupReader(g);
             var rows = (int)group.RowCount;
-            var columns = New(schema, rows);
+            var columns = ChunkColumns.For(schema, rows);
             await ReadGroupAsync(group, schema, columns, 0, token);
             columns.SetCount(rows);
             columns.Backward?.SetCount(rows);
             yield return columns;
         }
     }
-
-    private static ChunkColumns New(PartSchema schema, int rows) =>
-        new(rows, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0, schema.HasBranches);
 
     /// <summary>Reads one row group into <paramref name="columns"/>, its rows from <paramref name="offset"/> on.</summary>
     private static async Task ReadGroupAsync(ParquetRowGroupReader group, PartSchema schema, ChunkColumns columns, int offset, CancellationToken token)

@@ -68,18 +68,14 @@ public static class PartWriter
     }
 
     /// <summary>
-    /// Writes a point part (with Sweeps' own column writer, <see cref="Columnar.ColumnarFile"/>: this is the hot path);
-    /// its footer also carries the part's counts (<see cref="PartTally"/>).
+    /// Writes a point part with Sweeps' own column writer (<see cref="Columnar.ColumnarFile"/>); its footer also carries
+    /// the part's counts (<see cref="PartTally"/>).
     /// </summary>
-    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token) =>
-        WriteAsync(path, schema, columns, PartTally.Of(columns), metadata, token);
-
-    /// <summary>As above, with the part's counts already made (<see cref="PartTally.Of"/> of the same columns).</summary>
-    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, PartTally tally, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
+    internal static Task WriteAsync(string path, PartSchema schema, ChunkColumns columns, IReadOnlyDictionary<string, string> metadata, CancellationToken token)
     {
         token.ThrowIfCancellationRequested();
         var withTally = metadata.ToDictionary();
-        withTally[PartTally.Key] = tally.ToJson();
+        withTally[PartTally.Key] = PartTally.Of(columns).ToJson();
         return CommitAsync(
             path,
             stream =>
@@ -138,47 +134,6 @@ public static class PartWriter
         }
     }
 
-    /// <summary>Writes the columns as one row group of an open writer (parts have one; a merged export one per part).</summary>
-    internal static async Task WriteRowGroupAsync(ParquetWriter writer, PartSchema schema, ChunkColumns columns, CancellationToken token)
-    {
-        using var group = writer.CreateRowGroup();
-        var count = columns.Count;
-        await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point, 0, count), null, null, token);
-        for (var a = 0; a < schema.Axes.Count; a++)
-        {
-            await group.WriteAsync(schema.Axes[a], new ReadOnlyMemory<double>(columns.Axis[a], 0, count), null, null, token);
-        }
-
-        await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
-        await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
-        await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
-        await group.WriteAsync(schema.Attractors, new ReadOnlyMemory<int>(columns.Attractors, 0, count), null, null, token);
-        await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
-        await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
-        await WriteAll(group, schema.Final, columns.Final, count, token);
-        await WriteAll(group, schema.Indicators, columns.Indicators, count, token);
-        await group.WriteAsync(schema.Reason, columns.Reasons(count)!);
-        await WriteSamples(group, schema.SampleValue, columns, token);
-        if (schema.HasBranches && columns.Backward is { } backward)
-        {
-            await group.WriteAsync(schema.Hysteresis, new ReadOnlyMemory<bool>(columns.Hysteresis, 0, count), null, null, token);
-            await group.WriteAsync(schema.BackwardRegime, new ArraySegment<string>(backward.Regime, 0, count));
-            await group.WriteAsync(schema.BackwardPeriod, new ReadOnlyMemory<int>(backward.Period, 0, count), null, null, token);
-            await group.WriteAsync(schema.BackwardLyapunov, new ReadOnlyMemory<double>(backward.Lyapunov[0], 0, count), null, null, token);
-            await WriteAll(group, schema.BackwardFinal, backward.Final, count, token);
-            await WriteSamples(group, schema.BackwardSampleValue, backward, token);
-        }
-    }
-
-    private static Task WriteSamples(ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token)
-    {
-        var counts = columns.SampleCounts.AsSpan(0, columns.Count);
-        var levels = Columnar.ListLevels.Count(counts);
-        var (repetitions, definitions) = (new int[levels], new int[levels]);
-        Columnar.ListLevels.Fill(counts, repetitions, definitions);
-        return group.WriteAllPartsAsync<double>(field, columns.SampleValues.WrittenMemory, definitions, repetitions, token);
-    }
-
     internal static async Task WriteRowGroupAsync(ParquetWriter writer, AttractorSchema schema, AttractorColumns columns, CancellationToken token)
     {
         using var group = writer.CreateRowGroup();
@@ -196,14 +151,6 @@ public static class PartWriter
         await WriteLists(group, schema.Low, columns.Low, token);
         await WriteLists(group, schema.High, columns.High, token);
         await group.WriteAsync(schema.Reason, columns.Reason.ToArray()!);
-    }
-
-    private static async Task WriteAll(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count, CancellationToken token)
-    {
-        for (var i = 0; i < fields.Count; i++)
-        {
-            await group.WriteAsync(fields[i], new ReadOnlyMemory<double>(values[i], 0, count), null, null, token);
-        }
     }
 
     private static async Task WriteLists(ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, List<double>[] values, CancellationToken token)

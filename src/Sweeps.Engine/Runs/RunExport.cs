@@ -15,7 +15,7 @@ public static class RunExport
     {
         var schema = new PartSchema(run.LoadSpec());
         var parts = Parts(run);
-        var temporary = $"{path}.tmp-{Guid.NewGuid():N}";
+        var temporary = PartWriter.TemporaryPath(path);
         var rows = 0L;
         try
         {
@@ -34,7 +34,7 @@ public static class RunExport
                 if (parts.Count == 0)
                 {
                     // A run with no part yet: its columns, no rows.
-                    PartFile.WriteRowGroup(file, schema, new ChunkColumns(0, schema.Axes.Count, schema.Final.Count, schema.Indicators.Count > 0, schema.HasBranches));
+                    PartFile.WriteRowGroup(file, schema, ChunkColumns.For(schema, 0));
                 }
 
                 file.Finish(await MetadataAsync(parts, token), PartFile.CreatedBy);

@@ -175,11 +175,11 @@ public sealed class RunTable
             var reader = open ?? opened!;
             foreach (var g in Groups(reader, groups))
             {
-                using var rowGroup = reader.OpenRowGroupReader(g);
-                total += rowGroup.RowCount;
+                using var group = reader.OpenRowGroupReader(g);
+                total += group.RowCount;
                 if (samples)
                 {
-                    var entries = rowGroup.GetMetadata(SamplesField(reader.Schema.DataFields, "samples"))!.MetaData!.NumValues;
+                    var entries = group.GetMetadata(SamplesField(reader.Schema.DataFields, "samples"))!.MetaData!.NumValues;
                     (levels, values) = (Math.Max(levels, entries), values + (entries / dimension));
                 }
             }
@@ -205,35 +205,35 @@ public sealed class RunTable
             DataField Field(string name) => fields.First(f => f.Name == name);
             foreach (var g in Groups(reader, groups))
             {
-                using var rowGroup = reader.OpenRowGroupReader(g);
-                var count = (int)rowGroup.RowCount;
-                await rowGroup.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
+                using var group = reader.OpenRowGroupReader(g);
+                var count = (int)group.RowCount;
+                await group.ReadAsync(Field("point"), points.AsMemory(at, count), null, token);
                 for (var a = 0; a < axisNames.Count && !pointsAndSamplesOnly; a++)
                 {
-                    await rowGroup.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
+                    await group.ReadAsync(Field(axisNames[a]), axes[a].AsMemory(at, count), null, token);
                 }
 
                 if (!pointsAndSamplesOnly)
                 {
-                    await rowGroup.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
+                    await group.ReadAsync(Field("regime"), regimes.AsMemory(at, count)!, null, token);
                     Share(regimes.AsSpan(at, count), names);
-                    await rowGroup.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
-                    await rowGroup.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
+                    await group.ReadAsync(Field("period"), periods.AsMemory(at, count), null, token);
+                    await group.ReadAsync(Field("lyapunov_1"), lyapunov.AsMemory(at, count), null, token);
                 }
 
                 if (sampleRows is not null)
                 {
-                    await ReadSamples(rowGroup, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
+                    await ReadSamples(group, SamplesField(fields, "samples"), dimension, buffers!, sampleRows, token);
                 }
 
                 if (hysteresis is not null && !pointsAndSamplesOnly)
                 {
-                    await rowGroup.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
+                    await group.ReadAsync(Field("hysteresis"), hysteresis.AsMemory(at, count), null, token);
                 }
 
                 if (backwardRows is not null)
                 {
-                    await ReadSamples(rowGroup, SamplesField(fields, "backward_samples"), dimension, buffers!, backwardRows, token);
+                    await ReadSamples(group, SamplesField(fields, "backward_samples"), dimension, buffers!, backwardRows, token);
                 }
 
                 at += count;

@@ -416,10 +416,59 @@ public sealed class PartFileTests
         using var stream = new MemoryStream();
         await using (var writer = await Parquet.ParquetWriter.CreateAsync(schema.Schema, stream, PartWriter.Options(), false))
         {
-            await PartWriter.WriteRowGroupAsync(writer, schema, columns, CancellationToken.None);
+            await WriteRowGroupWithParquetNet(writer, schema, columns, CancellationToken.None);
         }
 
         return stream.ToArray();
+    }
+
+    /// <summary>The columns as one row group through Parquet.Net, column by column: the reference for Sweeps' own writer.</summary>
+    private static async Task WriteRowGroupWithParquetNet(Parquet.ParquetWriter writer, PartSchema schema, ChunkColumns columns, CancellationToken token)
+    {
+        using var group = writer.CreateRowGroup();
+        var count = columns.Count;
+        await group.WriteAsync(schema.Point, new ReadOnlyMemory<long>(columns.Point, 0, count), null, null, token);
+        for (var a = 0; a < schema.Axes.Count; a++)
+        {
+            await group.WriteAsync(schema.Axes[a], new ReadOnlyMemory<double>(columns.Axis[a], 0, count), null, null, token);
+        }
+
+        await group.WriteAsync(schema.Regime, new ArraySegment<string>(columns.Regime, 0, count));
+        await group.WriteAsync(schema.Period, new ReadOnlyMemory<int>(columns.Period, 0, count), null, null, token);
+        await group.WriteAsync(schema.PeriodTime, new ReadOnlyMemory<double>(columns.PeriodTime, 0, count), null, null, token);
+        await group.WriteAsync(schema.Attractors, new ReadOnlyMemory<int>(columns.Attractors, 0, count), null, null, token);
+        await WriteAll(group, schema.Lyapunov, columns.Lyapunov, count, token);
+        await WriteAll(group, schema.LyapunovError, columns.LyapunovError, count, token);
+        await WriteAll(group, schema.Final, columns.Final, count, token);
+        await WriteAll(group, schema.Indicators, columns.Indicators, count, token);
+        await group.WriteAsync(schema.Reason, columns.Reasons(count)!);
+        await WriteSamples(group, schema.SampleValue, columns, token);
+        if (schema.HasBranches && columns.Backward is { } backward)
+        {
+            await group.WriteAsync(schema.Hysteresis, new ReadOnlyMemory<bool>(columns.Hysteresis, 0, count), null, null, token);
+            await group.WriteAsync(schema.BackwardRegime, new ArraySegment<string>(backward.Regime, 0, count));
+            await group.WriteAsync(schema.BackwardPeriod, new ReadOnlyMemory<int>(backward.Period, 0, count), null, null, token);
+            await group.WriteAsync(schema.BackwardLyapunov, new ReadOnlyMemory<double>(backward.Lyapunov[0], 0, count), null, null, token);
+            await WriteAll(group, schema.BackwardFinal, backward.Final, count, token);
+            await WriteSamples(group, schema.BackwardSampleValue, backward, token);
+        }
+    }
+
+    private static Task WriteSamples(Parquet.ParquetRowGroupWriter group, Parquet.Schema.DataField<double> field, ChunkColumns columns, CancellationToken token)
+    {
+        var counts = columns.SampleCounts.AsSpan(0, columns.Count);
+        var levels = Sweeps.Engine.Runs.Columnar.ListLevels.Count(counts);
+        var (repetitions, definitions) = (new int[levels], new int[levels]);
+        Sweeps.Engine.Runs.Columnar.ListLevels.Fill(counts, repetitions, definitions);
+        return group.WriteAllPartsAsync<double>(field, columns.SampleValues.WrittenMemory, definitions, repetitions, token);
+    }
+
+    private static async Task WriteAll(Parquet.ParquetRowGroupWriter group, IReadOnlyList<Parquet.Schema.DataField<double>> fields, double[][] values, int count, CancellationToken token)
+    {
+        for (var i = 0; i < fields.Count; i++)
+        {
+            await group.WriteAsync(fields[i], new ReadOnlyMemory<double>(values[i], 0, count), null, null, token);
+        }
     }
 
     private static void AssertSame(ChunkColumns columns, Table table, bool backward)

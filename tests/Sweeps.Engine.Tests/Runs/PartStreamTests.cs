@@ -39,10 +39,10 @@ public sealed class PartStreamTests
     [InlineData("transient_check = true")] // no block kernel: point by point
     public async Task Chunk_IsWrittenInRowGroups_HoldingTheRowsOfThePartWrittenWhole(string analysis)
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var run = Create(folder, Config + "\n" + analysis, chunkSize: 5000);
+            var run = TestRunDirectories.Create(folder, Config + "\n" + analysis, chunkSize: 5000);
             var context = new RunContext(run);
             var group = context.GroupRows;
             Assert.InRange(group, 32, 2499);
@@ -80,10 +80,10 @@ public sealed class PartStreamTests
     [Fact]
     public async Task Chunk_StoppedAfterItsFirstRowGroup_LeavesNoFileInTheParts()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var run = Create(folder, Config, chunkSize: 5000);
+            var run = TestRunDirectories.Create(folder, Config, chunkSize: 5000);
             var context = new RunContext(run);
             using var stop = new CancellationTokenSource();
             var done = 0L;
@@ -116,11 +116,11 @@ public sealed class PartStreamTests
     [Fact]
     public async Task Refine_RemovesTheTemporaryPartsAKilledRefineLeftInItsLevel()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var run = Create(folder, Config.Replace("steps = 5000", "steps = 101"), chunkSize: 101);
-            await ChunkRunner.RunAsync(new RunContext(run), 0, null, CancellationToken.None);
+            var run = TestRunDirectories.Create(folder, Config.Replace("steps = 5000", "steps = 101"), chunkSize: 101);
+            await TestRunDirectories.ComputeAsync(run);
             var abandoned = Path.Combine(run.LevelPath(1), "parts", "part-000000.parquet.tmp-0123");
             Directory.CreateDirectory(Path.GetDirectoryName(abandoned)!);
             File.WriteAllBytes(abandoned, [1, 2, 3]);
@@ -139,11 +139,10 @@ public sealed class PartStreamTests
     [Fact]
     public async Task Export_WritesThePartsRowGroupsInPointOrder_WithTheirRowsAndTheRunsMetadata()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var run = Create(folder, Config.Replace("steps = 5000", "steps = 7000"), chunkSize: 5000);
-            var context = new RunContext(run);
+            var run = TestRunDirectories.Create(folder, Config.Replace("steps = 5000", "steps = 7000"), chunkSize: 5000);
             var merged = Path.Combine(folder, "all.parquet");
 
             // A run with no part yet: its columns, no rows.
@@ -152,11 +151,7 @@ public sealed class PartStreamTests
             Assert.Equal(0, empty.GroupRows.Sum());
             Assert.Contains("samples", empty.Keys);
 
-            foreach (var chunk in run.MissingChunks().ToList())
-            {
-                await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
-            }
-
+            await TestRunDirectories.ComputeAsync(run);
             Assert.Equal(7000, await RunExport.ParquetAsync(run, merged, CancellationToken.None));
             var (first, second) = (ReadIndependently(run.PartPath(0)), ReadIndependently(run.PartPath(1)));
             var all = ReadIndependently(merged);
@@ -191,15 +186,11 @@ public sealed class PartStreamTests
     [Fact]
     public async Task ReadEachPart_GivesTablesOfWholeRowGroups_EveryRowOnceAsTheWholeTableHasIt()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var run = Create(folder, Config, chunkSize: 2500);
-            var context = new RunContext(run);
-            foreach (var chunk in run.MissingChunks().ToList())
-            {
-                await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
-            }
+            var run = TestRunDirectories.Create(folder, Config, chunkSize: 2500);
+            var context = await TestRunDirectories.ComputeAsync(run);
 
             var whole = await RunTable.ReadAsync(run, samples: true);
 
@@ -242,11 +233,11 @@ public sealed class PartStreamTests
         // Lines of 250 points along r, both directions; with 512 samples a row group holds a few lines, a chunk twelve.
         var config = Config.Replace("r = { from = 2.8, to = 4.1, steps = 5000 }", "r = { from = 2.8, to = 4.1, steps = 250 }\nx = { from = 0.2, to = 0.7, steps = 12 }\nfollow = \"r\"")
             .Replace("[initial]\nx = 0.3\n", "");
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("stream");
         try
         {
-            var streamed = Create(Path.Combine(folder, "streamed"), config, chunkSize: 3000);
-            var whole = Create(Path.Combine(folder, "whole"), config, chunkSize: 3000);
+            var streamed = TestRunDirectories.Create(Path.Combine(folder, "streamed"), config, chunkSize: 3000);
+            var whole = TestRunDirectories.Create(Path.Combine(folder, "whole"), config, chunkSize: 3000);
             var context = new RunContext(streamed);
             Assert.InRange(context.GroupRows, 250, 1500);
             Assert.Equal(0, context.GroupRows % 250);
@@ -324,9 +315,4 @@ public sealed class PartStreamTests
             Assert.True(bytes * (rows + unit) / rows > 0.95 * ChunkColumns.GroupBytes, $"{rows} rows take {bytes} bytes");
         }
     }
-
-    private static string Folder() => Path.Combine(Path.GetTempPath(), $"sweeps-stream-{Guid.NewGuid():N}");
-
-    private static RunDirectory Create(string folder, string config, long chunkSize) =>
-        RunDirectory.CreateOrResume(Path.Combine(folder, "run"), SpecReader.Parse(config, "stream.toml"), config, [], chunkSize, TimeProvider.System).Run;
 }

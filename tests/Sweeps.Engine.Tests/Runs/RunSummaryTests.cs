@@ -34,17 +34,17 @@ public sealed class RunSummaryTests
     [Fact]
     public async Task CountsKeptByTheWritingProcess_GiveTheSummaryOfTheFooters()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("summary");
         try
         {
-            var run = Create(folder, chunkSize: 100);
-            var first = await ComputeAsync(run, run.MissingChunks().Take(3));
+            var run = TestRunDirectories.Create(folder, Config, chunkSize: 100);
+            var first = await TestRunDirectories.ComputeAsync(run, run.MissingChunks().Take(3));
 
             // Unfinished: the first process's counts against the footers.
             Same(await RunSummary.ReadAsync(run), await RunSummary.ReadAsync(first));
 
             // Resumed by a second process, which knows only its own parts.
-            var second = await ComputeAsync(run, run.MissingChunks());
+            var second = await TestRunDirectories.ComputeAsync(run);
             var fromFooters = await RunSummary.ReadAsync(run);
             Assert.Equal(701, fromFooters.PointsDone);
             Assert.True(fromFooters.Regimes.Count >= 3, string.Join(", ", fromFooters.Regimes.Keys));
@@ -59,11 +59,11 @@ public sealed class RunSummaryTests
     [Fact]
     public async Task PartsWrittenByTheProcess_AreNotOpenedAgain()
     {
-        var folder = Folder();
+        var folder = TestRunDirectories.Folder("summary");
         try
         {
-            var run = Create(folder, chunkSize: 400);
-            var context = await ComputeAsync(run, run.MissingChunks());
+            var run = TestRunDirectories.Create(folder, Config, chunkSize: 400);
+            var context = await TestRunDirectories.ComputeAsync(run);
 
             // A part spoilt after it was written: its footer can no longer be read, but the writing process kept its counts.
             File.WriteAllBytes(run.PartPath(1), [1, 2, 3]);
@@ -74,23 +74,6 @@ public sealed class RunSummaryTests
         {
             Directory.Delete(folder, recursive: true);
         }
-    }
-
-    private static string Folder() => Path.Combine(Path.GetTempPath(), $"sweeps-summary-{Guid.NewGuid():N}");
-
-    private static RunDirectory Create(string folder, long chunkSize) =>
-        RunDirectory.CreateOrResume(Path.Combine(folder, "run"), SpecReader.Parse(Config, "summary.toml"), Config, [], chunkSize, TimeProvider.System).Run;
-
-    /// <summary>The chunks computed by one process (a context of its own), as a run or its resumption does.</summary>
-    private static async Task<RunContext> ComputeAsync(RunDirectory run, IEnumerable<long> chunks)
-    {
-        var context = new RunContext(run);
-        foreach (var chunk in chunks.ToList())
-        {
-            await ChunkRunner.RunAsync(context, chunk, null, CancellationToken.None);
-        }
-
-        return context;
     }
 
     private static void Same(RunSummary expected, RunSummary actual)
