@@ -14,12 +14,19 @@ namespace Sweeps.Queue;
 /// </summary>
 public static class QueueHost
 {
-    public static IHost Build(QueueSettings settings, bool serve = true)
+    public static IHost Build(QueueSettings settings, bool serve = true, QueueLog? log = null)
     {
         // The empty builder: no configuration files, environment or command-line sources and no logging providers
         // (the default builder's JSON sources even start a file watcher) — a tenth of a second less to start.
         var builder = Host.CreateEmptyApplicationBuilder(new HostApplicationBuilderSettings());
         builder.Services.AddLogging();
+        if (log is not null)
+        {
+            // Hangfire writes through the host's logger factory (Hangfire.NetCore hands it over).
+            builder.Logging.SetMinimumLevel(log.Level);
+            builder.Logging.AddProvider(log.Provider());
+        }
+
         builder.Services.Configure<HostOptions>(o => o.ShutdownTimeout = TimeSpan.FromSeconds(30));
         builder.Services.AddSingleton<RunContexts>();
         builder.Services.AddSingleton<RunProgress>();

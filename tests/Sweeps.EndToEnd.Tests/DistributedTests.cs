@@ -380,7 +380,8 @@ public sealed class DistributedTests(PostgresFixture postgres)
         // A killed worker's chunk comes back after the invisibility timeout. 15 s rather than 5: with the whole suite
         // running beside these tests, a chunk's keep-alive (every fifth of the timeout) could lapse, a second worker then
         // fetched a chunk still being computed, and twice in a row a run was left one chunk short with nothing failed.
-        var worker = SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "15");
+        // The queue library's debug messages too: a failure below prints the workers' last lines.
+        var worker = SweepsProcess.Start(folder, "worker", "--queue", queue, "--workers", "1", "--invisibility", "15", "--log", "debug");
         var id = worker.Id;
         worker.OutputDataReceived += (_, line) => Log(id, line.Data);
         worker.ErrorDataReceived += (_, line) => Log(id, line.Data);
@@ -391,7 +392,8 @@ public sealed class DistributedTests(PostgresFixture postgres)
 
     private void Log(int worker, string? line)
     {
-        if (line is not null)
+        // The servers' heartbeats, every five seconds each, would crowd out what a failure needs.
+        if (line is not null && !line.Contains("heartbeat successfully sent", StringComparison.Ordinal))
         {
             workerLog.Enqueue($"[{worker}] {line}");
         }
@@ -423,7 +425,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
         var clock = Stopwatch.StartNew();
         while (!condition())
         {
-            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout} ({state?.Invoke() ?? "no state"}); the workers' last lines:\n{string.Join("\n", workerLog.TakeLast(40))}");
+            Assert.True(clock.Elapsed < timeout, $"condition not met within {timeout} ({state?.Invoke() ?? "no state"}); the workers' last lines:\n{string.Join("\n", workerLog.TakeLast(120))}");
             Thread.Sleep(50);
         }
     }

@@ -8,11 +8,12 @@ using Sweeps.Queue;
 namespace Sweeps.Cli.Commands;
 
 /// <summary>
-/// <c>sweeps worker --queue CONN [--workers N] [--invisibility SECONDS]</c>: serve chunk jobs of any run
+/// <c>sweeps worker --queue CONN [--workers N] [--invisibility SECONDS] [--log LEVEL]</c>: serve chunk jobs of any run
 /// until stopped. On SIGTERM or Ctrl-C the current chunks are cancelled (they leave no part) and go back
 /// to the queue; a worker that dies instead stops heart-beating and its chunks are re-run by another
 /// worker once the invisibility timeout has passed. Once every invisibility timeout, a worker also queues again the
-/// chunks of the runs it has worked on that were queued but whose jobs were lost (printed as <c>requeued:</c>).
+/// chunks of the runs it has worked on that were queued but whose jobs were lost (printed as <c>requeued:</c>). What the
+/// queue library warns of (a lock it cannot take, the database out of reach) goes to standard error too.
 /// </summary>
 internal static class WorkerCommand
 {
@@ -24,10 +25,17 @@ internal static class WorkerCommand
         {
             Description = $"Seconds before a chunk of a worker that died is given to another (default {QueueSettings.DefaultInvisibility.TotalSeconds})",
         };
+        var log = new Option<string>("--log")
+        {
+            Description = "The queue library's messages printed on standard error, from this level up: error, warning (default), info or debug",
+            DefaultValueFactory = _ => "warning",
+        };
+        log.AcceptOnlyFromAmong([.. QueueLog.Levels.Select(l => l.Name)]);
         var command = new Command("worker", "Serve chunk jobs from a shared PostgreSQL queue until stopped");
         command.Options.Add(queue);
         command.Options.Add(workers);
         command.Options.Add(invisibility);
+        command.Options.Add(log);
         command.SetAction(async (parse, token) =>
         {
             var connection = QueueOptions.Require(parse, queue);
@@ -41,7 +49,8 @@ internal static class WorkerCommand
 
             return await QueueOptions.Guard(connection, async () =>
             {
-                using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)));
+                var level = QueueLog.Levels.Single(l => l.Name == parse.GetValue(log)).Level;
+                using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)), log: new QueueLog(level, Report));
                 var progress = host.Services.GetRequiredService<RunProgress>();
                 progress.ChunkFailed += (run, failure) => Report($"failed: {run} {failure}");
                 progress.ChunksRequeued += (run, chunks) =>
