@@ -34,11 +34,14 @@ public static class ChunkQueue
     /// took off the queue's list (<see cref="Forget"/>: it waits for the run to be submitted again, so that a failure
     /// that would repeat is not retried for ever). Returns the chunks queued.
     /// </summary>
-    public static IReadOnlyList<long> Recover(JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool> stillMissing) =>
-        Enqueue(storage, client, runDirectory, missing, stillMissing, lostOnly: true).Added;
+    /// <param name="stalled">Jobs that do not count as live: fetched by a worker that has held them too long without
+    /// starting them (<see cref="QueueStatus.Held"/>).</param>
+    public static IReadOnlyList<long> Recover(
+        JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool> stillMissing, IReadOnlySet<string>? stalled = null) =>
+        Enqueue(storage, client, runDirectory, missing, stillMissing, lostOnly: true, stalled).Added;
 
     private static (List<long> Added, int Again) Enqueue(
-        JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool>? stillMissing, bool lostOnly)
+        JobStorage storage, IBackgroundJobClient client, string runDirectory, IReadOnlyList<long> missing, Func<long, bool>? stillMissing, bool lostOnly, IReadOnlySet<string>? stalled = null)
     {
         using var connection = storage.GetConnection();
         using var _ = LockRun(connection, runDirectory);
@@ -52,7 +55,7 @@ public static class ChunkQueue
             var item = chunk.ToString(System.Globalization.CultureInfo.InvariantCulture);
             if (queued.Contains(item))
             {
-                live ??= QueueStatus.LiveChunks(storage, runDirectory);
+                live ??= QueueStatus.LiveChunks(storage, runDirectory, stalled);
                 if (live.Contains(chunk) || stillMissing?.Invoke(chunk) == false)
                 {
                     continue;

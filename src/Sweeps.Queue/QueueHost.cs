@@ -51,8 +51,12 @@ public static class QueueHost
                         // timeout is started again while the first run is still going.
                         UseSlidingInvisibilityTimeout = true,
                         InvisibilityTimeout = settings.Invisibility ?? QueueSettings.DefaultInvisibility,
+                        // An idle worker looks for jobs once a second. Long polling is off: with it the storage opens
+                        // a listening connection for every fetch and, the job already taken, waits without a time
+                        // limit for that listener to stop — a wait that would hold the job unstarted, its queue
+                        // entry kept alive, if the listener never stopped.
                         QueuePollInterval = TimeSpan.FromSeconds(1),
-                        EnableLongPolling = true,
+                        EnableLongPolling = false,
                         DistributedLockTimeout = TimeSpan.FromSeconds(30),
                     });
             }

@@ -17,4 +17,11 @@ public sealed record QueueSettings(int Workers, string? Connection = null, TimeS
     public static readonly TimeSpan DefaultInvisibility = TimeSpan.FromSeconds(30);
 
     public bool Distributed => Connection is not null;
+
+    /// <summary>
+    /// How long a worker may hold a job it fetched without starting it before the job's chunk is queued again: four
+    /// invisibility timeouts, and at least a minute — well past the longest a live worker waits before it starts a job
+    /// (a lock a dead worker left expires after 30 s).
+    /// </summary>
+    public TimeSpan StallAfter => TimeSpan.FromTicks(Math.Max(4 * (Invisibility ?? DefaultInvisibility).Ticks, TimeSpan.FromMinutes(1).Ticks));
 }

@@ -40,8 +40,22 @@ public sealed record QueueStatus(
     /// finished one (whose part was removed since) are not live: their chunks are missing for good unless queued again.
     /// The listings are read in that order, so that a job moving on between two of them is seen in the later one.
     /// </summary>
-    public static HashSet<long> LiveChunks(JobStorage storage, string runDirectory) =>
-        LiveOf(storage, Jobs(storage.GetMonitoringApi(), runDirectory));
+    /// <param name="stalled">Jobs not to count even so: those a worker fetched and has held for long without starting
+    /// them (<see cref="Held"/>).</param>
+    public static HashSet<long> LiveChunks(JobStorage storage, string runDirectory, IReadOnlySet<string>? stalled = null) =>
+        LiveOf(storage, Jobs(storage.GetMonitoringApi(), runDirectory).Where(j => stalled?.Contains(j.Id) != true));
+
+    /// <summary>
+    /// The run's jobs that a worker has fetched from the shared queue but not started: still in the enqueued state with
+    /// their queue entry taken. A worker holds a job so for a moment before it starts it — or for as long as it waits
+    /// for a lock a dead worker left (the distributed-lock timeout) — and a worker alive but stuck keeps its hold for
+    /// ever, so that the job never comes back to the queue.
+    /// </summary>
+    public static IReadOnlyList<string> Held(JobStorage storage, string runDirectory) =>
+        Jobs(storage.GetMonitoringApi(), runDirectory)
+            .Where(j => !j.Waiting && j.Server is null && string.Equals(j.State, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase))
+            .Select(j => j.Id)
+            .ToList();
 
     private static HashSet<long> LiveOf(JobStorage storage, IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> jobs)
     {

@@ -223,6 +223,40 @@ public sealed class DistributedTests(PostgresFixture postgres)
     }
 
     [SkippableFact]
+    public void PostgreSql_JobHeldUnstartedByAStuckWorker_IsQueuedAgainByTheWorkers()
+    {
+        Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
+        using var temp = new TempFolder();
+        var (queue, _) = SubmitShared(temp);
+
+        // Chunk 0's job taken by a worker that is alive but never starts it: its queue entry stays fetched, renewed
+        // every second as the sliding invisibility timeout renews it, so the job never comes back to the queue. The
+        // workers (invisibility 15 s) call a job held unstarted for four timeouts stalled and queue its chunk again.
+        var row = Scalar(queue, "SELECT min(id) FROM sweeps.jobqueue");
+        using var stuck = new CancellationTokenSource();
+        var holder = Task.Run(async () =>
+        {
+            while (!stuck.IsCancellationRequested)
+            {
+                Assert.Equal(1, Sql(queue, $"UPDATE sweeps.jobqueue SET fetchedat = now() WHERE id = {row}"));
+                await Task.Delay(TimeSpan.FromSeconds(1), CancellationToken.None);
+            }
+        });
+        try
+        {
+            ComputeShared(temp, queue);
+        }
+        finally
+        {
+            stuck.Cancel();
+            holder.Wait();
+        }
+
+        Assert.Contains(workerLog, line => line.Contains($"requeued: {Path.Combine(temp.Path, "shared")} chunk 0 (queued, but no job", StringComparison.Ordinal));
+        ReadEveryPoint(temp);
+    }
+
+    [SkippableFact]
     public void PostgreSql_CancelledRun_IsNotComputed_UntilSubmittedAgain()
     {
         Skip.If(postgres.SkipReason is not null, postgres.SkipReason);
@@ -287,6 +321,14 @@ public sealed class DistributedTests(PostgresFixture postgres)
         connection.Open();
         using var command = new Npgsql.NpgsqlCommand(text, connection);
         return command.ExecuteNonQuery();
+    }
+
+    private static long Scalar(string queue, string text)
+    {
+        using var connection = new Npgsql.NpgsqlConnection(queue);
+        connection.Open();
+        using var command = new Npgsql.NpgsqlCommand(text, connection);
+        return Convert.ToInt64(command.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture);
     }
 
     /// <summary>The "queue" object of <c>status shared --queue --json</c>.</summary>

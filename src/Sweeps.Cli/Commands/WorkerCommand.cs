@@ -50,11 +50,12 @@ internal static class WorkerCommand
             return await QueueOptions.Guard(connection, async () =>
             {
                 var level = QueueLog.Levels.Single(l => l.Name == parse.GetValue(log)).Level;
-                using var host = QueueHost.Build(new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds)), log: new QueueLog(level, Report));
+                var settings = new QueueSettings(count, connection, TimeSpan.FromSeconds(seconds));
+                using var host = QueueHost.Build(settings, log: new QueueLog(level, Report));
                 var progress = host.Services.GetRequiredService<RunProgress>();
                 progress.ChunkFailed += (run, failure) => Report($"failed: {run} {failure}");
                 progress.ChunksRequeued += (run, chunks) =>
-                    Report($"requeued: {run} chunk{(chunks.Count == 1 ? "" : "s")} {SummaryText.Chunks(chunks)} (queued, but no job of theirs was left waiting or running)");
+                    Report($"requeued: {run} chunk{(chunks.Count == 1 ? "" : "s")} {SummaryText.Chunks(chunks)} (queued, but no job of theirs was left waiting or running, or a worker held it unstarted for {settings.StallAfter.TotalSeconds:0} s)");
                 await host.StartAsync(CancellationToken.None);
                 cli.Output.WriteLine($"worker {Environment.MachineName}:{Environment.ProcessId} serving {ConnectionStrings.Mask(connection)} with {count} thread{(count == 1 ? "" : "s")}");
                 cli.Output.Flush();
