@@ -39,9 +39,14 @@ internal sealed class LostChunkWatch(RunContexts contexts, RunProgress progress,
     {
         try
         {
-            var stalled = Stalled(queued, now);
             var missing = run.MissingChunks();
-            if (missing.Count > 0 && ChunkQueue.Recover(storage, client, queued, missing, chunk => !run.IsDone(chunk), stalled) is { Count: > 0 } recovered)
+            if (missing.Count == 0)
+            {
+                heldSince.Remove(queued);
+                return;
+            }
+
+            if (ChunkQueue.Recover(storage, client, queued, missing, chunk => !run.IsDone(chunk), Stalled(queued, now)) is { Count: > 0 } recovered)
             {
                 progress.Requeued(queued, recovered);
             }

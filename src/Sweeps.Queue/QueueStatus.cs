@@ -51,11 +51,22 @@ public sealed record QueueStatus(
     /// for a lock a dead worker left (the distributed-lock timeout) — and a worker alive but stuck keeps its hold for
     /// ever, so that the job never comes back to the queue.
     /// </summary>
-    public static IReadOnlyList<string> Held(JobStorage storage, string runDirectory) =>
-        Jobs(storage.GetMonitoringApi(), runDirectory)
-            .Where(j => !j.Waiting && j.Server is null && string.Equals(j.State, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase))
-            .Select(j => j.Id)
-            .ToList();
+    public static IReadOnlyList<string> Held(JobStorage storage, string runDirectory)
+    {
+        // The fetched listings alone: a run's waiting jobs may be many, its held ones are at most one per worker.
+        var monitoring = storage.GetMonitoringApi();
+        var held = new List<string>();
+        foreach (var queue in Queues(monitoring))
+        {
+            var fetched = monitoring.FetchedCount(queue);
+            IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> listed = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
+            held.AddRange(listed
+                .Where(j => Ours(j.Value.Job, runDirectory) && string.Equals(j.Value.State, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase))
+                .Select(j => j.Key));
+        }
+
+        return held;
+    }
 
     private static HashSet<long> LiveOf(JobStorage storage, IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> jobs)
     {
@@ -74,8 +85,7 @@ public sealed record QueueStatus(
     /// </summary>
     internal static IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> Jobs(Hangfire.Storage.IMonitoringApi monitoring, string runDirectory)
     {
-        // The default queue, where chunk jobs go, is always looked at, whatever the storage lists as its queues.
-        foreach (var queue in monitoring.Queues().Select(q => q.Name).Append(EnqueuedState.DefaultQueue).Distinct(StringComparer.Ordinal))
+        foreach (var queue in Queues(monitoring))
         {
             var waiting = monitoring.EnqueuedCount(queue);
             IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.EnqueuedJobDto>> listed = waiting > 0 ? monitoring.EnqueuedJobs(queue, 0, (int)Math.Min(int.MaxValue, waiting)) : [];
@@ -106,6 +116,10 @@ public sealed record QueueStatus(
             }
         }
     }
+
+    /// <summary>The queues to look at: the default queue, where chunk jobs go, whatever the storage lists, and those it lists.</summary>
+    private static IEnumerable<string> Queues(Hangfire.Storage.IMonitoringApi monitoring) =>
+        monitoring.Queues().Select(q => q.Name).Append(EnqueuedState.DefaultQueue).Distinct(StringComparer.Ordinal);
 
     /// <summary>Whether a job in this state will still be performed (or is being performed).</summary>
     internal static bool Pending(string? state) =>
