@@ -55,17 +55,11 @@ public sealed record QueueStatus(
     {
         // The fetched listings alone: a run's waiting jobs may be many, its held ones are at most one per worker.
         var monitoring = storage.GetMonitoringApi();
-        var held = new List<string>();
-        foreach (var queue in Queues(monitoring))
-        {
-            var fetched = monitoring.FetchedCount(queue);
-            IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> listed = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
-            held.AddRange(listed
-                .Where(j => Ours(j.Value.Job, runDirectory) && string.Equals(j.Value.State, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase))
-                .Select(j => j.Key));
-        }
-
-        return held;
+        return Queues(monitoring)
+            .SelectMany(queue => Fetched(monitoring, queue, runDirectory))
+            .Where(j => string.Equals(j.State, EnqueuedState.StateName, StringComparison.OrdinalIgnoreCase))
+            .Select(j => j.Id)
+            .ToList();
     }
 
     private static HashSet<long> LiveOf(JobStorage storage, IEnumerable<(string Id, long Chunk, string? State, string? Server, bool Waiting)> jobs)
@@ -97,14 +91,9 @@ public sealed record QueueStatus(
                 }
             }
 
-            var fetched = monitoring.FetchedCount(queue);
-            IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> held = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
-            foreach (var (id, job) in held)
+            foreach (var (id, chunk, state) in Fetched(monitoring, queue, runDirectory))
             {
-                if (Ours(job.Job, runDirectory))
-                {
-                    yield return (id, ChunkOf(job.Job), job.State, null, false);
-                }
+                yield return (id, chunk, state, null, false);
             }
         }
 
@@ -115,6 +104,14 @@ public sealed record QueueStatus(
                 yield return (id, ChunkOf(job.Job), ProcessingState.StateName, job.ServerId ?? "?", false);
             }
         }
+    }
+
+    /// <summary>The run's jobs in <paramref name="queue"/> that a worker has fetched (started or not).</summary>
+    private static IEnumerable<(string Id, long Chunk, string? State)> Fetched(Hangfire.Storage.IMonitoringApi monitoring, string queue, string runDirectory)
+    {
+        var fetched = monitoring.FetchedCount(queue);
+        IEnumerable<KeyValuePair<string, Hangfire.Storage.Monitoring.FetchedJobDto>> listed = fetched > 0 ? monitoring.FetchedJobs(queue, 0, (int)Math.Min(int.MaxValue, fetched)) : [];
+        return listed.Where(j => Ours(j.Value.Job, runDirectory)).Select(j => (j.Key, ChunkOf(j.Value.Job), (string?)j.Value.State));
     }
 
     /// <summary>The queues to look at: the default queue, where chunk jobs go, whatever the storage lists, and those it lists.</summary>

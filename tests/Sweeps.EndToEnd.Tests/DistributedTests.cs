@@ -315,20 +315,18 @@ public sealed class DistributedTests(PostgresFixture postgres)
         Assert.Equal(1, Sql(queue, "DELETE FROM sweeps.jobqueue WHERE id = (SELECT min(id) FROM sweeps.jobqueue)"));
 
     /// <summary>Runs SQL on the queue's database; returns the rows it changed.</summary>
-    private static int Sql(string queue, string text)
-    {
-        using var connection = new Npgsql.NpgsqlConnection(queue);
-        connection.Open();
-        using var command = new Npgsql.NpgsqlCommand(text, connection);
-        return command.ExecuteNonQuery();
-    }
+    private static int Sql(string queue, string text) => Command(queue, text, command => command.ExecuteNonQuery());
 
-    private static long Scalar(string queue, string text)
+    /// <summary>The first value a query on the queue's database gives.</summary>
+    private static long Scalar(string queue, string text) =>
+        Command(queue, text, command => Convert.ToInt64(command.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture));
+
+    private static T Command<T>(string queue, string text, Func<Npgsql.NpgsqlCommand, T> run)
     {
         using var connection = new Npgsql.NpgsqlConnection(queue);
         connection.Open();
         using var command = new Npgsql.NpgsqlCommand(text, connection);
-        return Convert.ToInt64(command.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture);
+        return run(command);
     }
 
     /// <summary>The "queue" object of <c>status shared --queue --json</c>.</summary>
@@ -406,13 +404,7 @@ public sealed class DistributedTests(PostgresFixture postgres)
         }
     }
 
-    private static long QueueRows(string queue)
-    {
-        using var connection = new Npgsql.NpgsqlConnection(queue);
-        connection.Open();
-        using var count = new Npgsql.NpgsqlCommand("SELECT count(*) FROM sweeps.jobqueue", connection);
-        return (long)count.ExecuteScalar()!;
-    }
+    private static long QueueRows(string queue) => Scalar(queue, "SELECT count(*) FROM sweeps.jobqueue");
 
     // What the workers print, read as it comes: an unread pipe fills up and stalls the worker writing to it.
     private readonly System.Collections.Concurrent.ConcurrentQueue<string> workerLog = new();

@@ -34,46 +34,32 @@ public sealed class RunSummaryTests
     [Fact]
     public async Task CountsKeptByTheWritingProcess_GiveTheSummaryOfTheFooters()
     {
-        var folder = TestRunDirectories.Folder("summary");
-        try
-        {
-            var run = TestRunDirectories.Create(folder, Config, chunkSize: 100);
-            var first = await TestRunDirectories.ComputeAsync(run, run.MissingChunks().Take(3));
+        using var folder = TestRunDirectories.Folder("summary");
+        var run = TestRunDirectories.Create(folder, Config, chunkSize: 100);
+        var first = await TestRunDirectories.ComputeAsync(run, run.MissingChunks().Take(3));
 
-            // Unfinished: the first process's counts against the footers.
-            Same(await RunSummary.ReadAsync(run), await RunSummary.ReadAsync(first));
+        // Unfinished: the first process's counts against the footers.
+        Same(await RunSummary.ReadAsync(run), await RunSummary.ReadAsync(first));
 
-            // Resumed by a second process, which knows only its own parts.
-            var second = await TestRunDirectories.ComputeAsync(run);
-            var fromFooters = await RunSummary.ReadAsync(run);
-            Assert.Equal(701, fromFooters.PointsDone);
-            Assert.True(fromFooters.Regimes.Count >= 3, string.Join(", ", fromFooters.Regimes.Keys));
-            Same(fromFooters, await RunSummary.ReadAsync(second));
-        }
-        finally
-        {
-            Directory.Delete(folder, recursive: true);
-        }
+        // Resumed by a second process, which knows only its own parts.
+        var second = await TestRunDirectories.ComputeAsync(run);
+        var fromFooters = await RunSummary.ReadAsync(run);
+        Assert.Equal(701, fromFooters.PointsDone);
+        Assert.True(fromFooters.Regimes.Count >= 3, string.Join(", ", fromFooters.Regimes.Keys));
+        Same(fromFooters, await RunSummary.ReadAsync(second));
     }
 
     [Fact]
     public async Task PartsWrittenByTheProcess_AreNotOpenedAgain()
     {
-        var folder = TestRunDirectories.Folder("summary");
-        try
-        {
-            var run = TestRunDirectories.Create(folder, Config, chunkSize: 400);
-            var context = await TestRunDirectories.ComputeAsync(run);
+        using var folder = TestRunDirectories.Folder("summary");
+        var run = TestRunDirectories.Create(folder, Config, chunkSize: 400);
+        var context = await TestRunDirectories.ComputeAsync(run);
 
-            // A part spoilt after it was written: its footer can no longer be read, but the writing process kept its counts.
-            File.WriteAllBytes(run.PartPath(1), [1, 2, 3]);
-            Assert.Equal(701, (await RunSummary.ReadAsync(context)).PointsDone);
-            await Assert.ThrowsAnyAsync<Exception>(() => RunSummary.ReadAsync(run));
-        }
-        finally
-        {
-            Directory.Delete(folder, recursive: true);
-        }
+        // A part spoilt after it was written: its footer can no longer be read, but the writing process kept its counts.
+        File.WriteAllBytes(run.PartPath(1), [1, 2, 3]);
+        Assert.Equal(701, (await RunSummary.ReadAsync(context)).PointsDone);
+        await Assert.ThrowsAnyAsync<Exception>(() => RunSummary.ReadAsync(run));
     }
 
     private static void Same(RunSummary expected, RunSummary actual)

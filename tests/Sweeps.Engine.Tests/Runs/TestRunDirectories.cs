@@ -7,8 +7,10 @@ namespace Sweeps.Engine.Tests.Runs;
 /// <summary>Run directories of a config in a temporary folder, their chunks computed in this process as a worker would.</summary>
 internal static class TestRunDirectories
 {
-    /// <summary>A new folder name under the temporary folder (not created).</summary>
-    public static string Folder(string name) => Path.Combine(Path.GetTempPath(), $"sweeps-{name}-{Guid.NewGuid():N}");
+    /// <summary>A new folder under the temporary folder (not created until used), deleted with everything in it on dispose.</summary>
+    public static TestFolder Folder(string name) => new(Path.Combine(Path.GetTempPath(), $"sweeps-{name}-{Guid.NewGuid():N}"));
+
+    public static RunDirectory Create(TestFolder folder, string config, long chunkSize) => Create(folder.Path, config, chunkSize);
 
     /// <summary>The run directory <c>run</c> in <paramref name="folder"/> for <paramref name="config"/>, in chunks of <paramref name="chunkSize"/> points.</summary>
     public static RunDirectory Create(string folder, string config, long chunkSize) =>
@@ -25,4 +27,12 @@ internal static class TestRunDirectories
 
         return context;
     }
+}
+
+/// <summary>A temporary folder of a test, deleted on dispose.</summary>
+internal sealed class TestFolder(string path) : IDisposable
+{
+    public string Path { get; } = path;
+
+    public void Dispose() => Directory.Delete(Path, recursive: true);
 }
