@@ -69,10 +69,15 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
         return new CostEstimate(timed, perPoint, perPoint * points);
     }
 
-    /// <summary>Fewest points a quick estimate times, and the time after which it stops timing more.</summary>
+    /// <summary>
+    /// Fewest points a quick estimate times, and the time after which it stops timing more. The figure sizes chunks only
+    /// where it puts a chunk under <see cref="ChunkPlan.EmbeddedMinSeconds"/> or over <see cref="ChunkPlan.TargetSeconds"/>
+    /// (the chunks per worker decide otherwise), so a rough one does; 40 ms of timing had been a tenth of a
+    /// 400-point Dormand–Prince run's wall time (docs/performance.md, fourteenth session).
+    /// </summary>
     private const int QuickMinimum = 4;
 
-    private const double QuickBudget = 0.04;
+    private const double QuickBudget = 0.01;
 
     /// <summary>
     /// 0 … <paramref name="count"/> − 1, the two ends first, then the rest in the order of their bit-reversed index (the
@@ -126,11 +131,14 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
 
         // Warm-up: long enough for tiered compilation to have optimised the per-point code too (it promotes
         // methods after ~30 calls and a 100 ms delay; before that the estimate is several times pessimistic).
-        // Large grids are worth the 0.3 s for a careful figure; for small ones, or a quick one, a rough figure will do.
+        // Large grids are worth the 0.3 s for a careful figure; for small ones a rough figure will do. A quick one
+        // warms up on one block, the first call that compiles the kernels: no budget short of the 100 ms would let
+        // tiering promote anything, the installed build does not tier (the per-point code is compiled optimised at
+        // once), and `run` waits for the estimate before its first chunk.
         var lanes = (int)Math.Min(size, points);
         Fill(0, lanes);
         var warmUp = Stopwatch.StartNew();
-        var budget = points > 100_000 && !quick ? 0.3 : 0.02;
+        var budget = quick ? 0 : points > 100_000 ? 0.3 : 0.02;
         do
         {
             block.Analyze(initial, parameters, lanes, results);
