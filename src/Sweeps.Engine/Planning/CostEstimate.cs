@@ -120,7 +120,7 @@ public sealed record CostEstimate(int SampledPoints, double SecondsPerPoint, dou
     }
 
     /// <summary>Points a block kernel computes: a warm-up block, then blocks of points spread over the grid, timed as chunks run them.</summary>
-    private static CostEstimate MeasureBlocks(SweepSpec spec, Core.Kernels.IBlockAnalyzer block, bool quick)
+    internal static CostEstimate MeasureBlocks(SweepSpec spec, Core.Kernels.IBlockAnalyzer block, bool quick)
     {
         var size = block.BlockSize;
         var points = spec.Grid.PointCount;
