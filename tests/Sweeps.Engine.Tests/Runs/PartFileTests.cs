@@ -293,6 +293,44 @@ public sealed class PartFileTests
     }
 
     [Fact]
+    public void LevelRuns_WriteTheBytesTheHybridEncoderWrites_ForTheSameLevels()
+    {
+        // Parquet's RLE / bit-packing hybrid (Apache Parquet format, "Encodings", RLE): the run-fed encoder of list levels
+        // against the level-by-level one, on up to LiteralCap levels (beyond it the run-fed one cuts its literal runs).
+        var runs = Gen.Select(Gen.Int[0, 3], Gen.Int[1, 40]).Array[1, 300];
+        Gen.Select(Gen.Int[1, 2], runs).Sample((width, drawn) =>
+        {
+            var levels = drawn.SelectMany(r => Enumerable.Repeat(r.Item1 & ((1 << width) - 1), r.Item2)).ToArray();
+            var expected = new System.Buffers.ArrayBufferWriter<byte>();
+            Sweeps.Engine.Runs.Columnar.HybridEncoder.Encode(levels, width, expected);
+
+            var actual = new System.Buffers.ArrayBufferWriter<byte>();
+            using (var encoder = new Sweeps.Engine.Runs.Columnar.LevelRuns(width, actual))
+            {
+                foreach (var (level, count) in drawn)
+                {
+                    encoder.Add(level & ((1 << width) - 1), count);
+                }
+
+                encoder.Finish();
+            }
+
+            Assert.Equal(expected.WrittenSpan.ToArray(), actual.WrittenSpan.ToArray());
+        });
+    }
+
+    [Theory]
+    [InlineData(4)]
+    [InlineData(8)]
+    public void Write_ReadsBackBitForBit_WhenEveryRowHoldsAsManySamples(int samples)
+    {
+        // A sweep's rows carry the same number of samples (8 or 16 values here, two variables): tens of thousands of
+        // levels in one regular pattern, cut into several bit-packed runs or repeated runs of 1s.
+        var rows = Enumerable.Range(0, 75).Select(i => (Regime.Periodic, 40, samples, 0.5 + i, -1, i % 2 == 0)).ToArray();
+        AssertRoundTrip(rows, Enumerable.Range(0, 3000).Select(i => (long)i).ToArray());
+    }
+
+    [Fact]
     public void Write_GivesTheSameBytes_EveryTime()
     {
         var (schema, columns) = Build(Rows.Array[20].Single(), Gen.Long.Array[200].Single());

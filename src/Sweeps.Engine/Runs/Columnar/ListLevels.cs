@@ -34,53 +34,26 @@ internal static class ListLevels
     }
 
     /// <summary>
-    /// Hybrid-encodes the repetition (or definition) levels of the rows, made a block at a time: a chunk's levels are
-    /// millions of integers, and a page of memory touched for the first time costs more than encoding it.
+    /// Hybrid-encodes the repetition (or definition) levels of the rows as runs (<see cref="LevelRuns"/>): a row of
+    /// values is a repetition 0 and then 1s, and definition 2 for each value; an empty row one level, 0 and 1.
     /// </summary>
     public static void Encode(ReadOnlySpan<int> counts, bool repetition, IBufferWriter<byte> output)
     {
-        const int Block = 1 << 14;
-        var width = repetition ? 1 : 2;
-        var buffer = ScratchPools.Ints.Rent(Block);
-        try
+        using var runs = new LevelRuns(repetition ? 1 : 2, output);
+        foreach (var count in counts)
         {
-            var filled = 0;
-            void Flush()
+            if (repetition)
             {
-                var encoded = HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output, final: false);
-                buffer.AsSpan(encoded, filled - encoded).CopyTo(buffer);
-                filled -= encoded;
+                runs.Add(0, 1);
+                runs.Add(1, count - 1);
             }
-
-            foreach (var count in counts)
+            else
             {
-                // A row's levels at once when the block has room for them (any real sample count), else in pieces.
-                var levels = Math.Max(1, count);
-                if (filled + levels > buffer.Length)
-                {
-                    Flush();
-                }
-
-                for (var done = 0; done < levels;)
-                {
-                    if (filled == buffer.Length)
-                    {
-                        Flush();
-                    }
-
-                    var piece = Math.Min(levels - done, buffer.Length - filled);
-                    Row(buffer.AsSpan(filled, piece), count, repetition, first: done == 0);
-                    filled += piece;
-                    done += piece;
-                }
+                runs.Add(count == 0 ? 1 : 2, Math.Max(1, count));
             }
+        }
 
-            HybridEncoder.Encode(buffer.AsSpan(0, filled), width, output);
-        }
-        finally
-        {
-            ScratchPools.Ints.Return(buffer);
-        }
+        runs.Finish();
     }
 
     /// <summary>The number of values in each row of levels read back; returns the number of rows.</summary>
