@@ -1,5 +1,6 @@
 using System.Numerics;
 using System.Runtime.InteropServices;
+using System.Runtime.Intrinsics;
 
 namespace Sweeps.Engine.Runs.Columnar;
 
@@ -34,6 +35,34 @@ internal sealed record ColumnStatistics(long Nulls, byte[]? Min, byte[]? Max)
     {
         var (min, max) = (double.PositiveInfinity, double.NegativeInfinity);
         var ordered = false;
+
+        // Four lanes at a time, each lane the loop below (a NaN fails both comparisons and so never moves the range); the
+        // lanes then meet in that loop's order. Only equal values of different bits (±0) could come out otherwise, and
+        // the zero's sign is fixed at the end. A column's statistics had cost 1.5 % of a map sweep (the samples' values).
+        var vectors = Vector256.IsHardwareAccelerated ? values.Length / Vector256<double>.Count : 0;
+        if (vectors > 0)
+        {
+            var (low, high) = (Vector256.Create(double.PositiveInfinity), Vector256.Create(double.NegativeInfinity));
+            var seen = Vector256<double>.Zero;
+            ref var first = ref MemoryMarshal.GetReference(values);
+            for (var k = 0; k < vectors; k++)
+            {
+                var value = Vector256.LoadUnsafe(ref first, (nuint)(k * Vector256<double>.Count));
+                low = Vector256.ConditionalSelect(Vector256.LessThan(value, low), value, low);
+                high = Vector256.ConditionalSelect(Vector256.GreaterThan(value, high), value, high);
+                seen |= Vector256.Equals(value, value);
+            }
+
+            for (var lane = 0; lane < Vector256<double>.Count; lane++)
+            {
+                min = low[lane] < min ? low[lane] : min;
+                max = high[lane] > max ? high[lane] : max;
+            }
+
+            ordered = seen != Vector256<double>.Zero;
+            values = values[(vectors * Vector256<double>.Count)..];
+        }
+
         foreach (var value in values)
         {
             // NaN fails both comparisons and so never moves the range.
