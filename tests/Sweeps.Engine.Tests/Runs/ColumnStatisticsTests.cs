@@ -10,16 +10,12 @@ namespace Sweeps.Engine.Tests.Runs;
 /// </summary>
 public sealed class ColumnStatisticsTests
 {
-    private static readonly Gen<double> Values = Gen.Frequency(
-        (6, Gen.Double),
-        (2, Gen.OneOf(double.NaN, double.PositiveInfinity, double.NegativeInfinity, 0.0, -0.0, double.Epsilon, -double.MaxValue)));
-
     [Fact]
     public void Of_GivesTheRangeOfTheValuesOtherThanNaN_WhateverTheirNumberAndOrder()
     {
         // Lengths around the four-value vectors and their remainders; columns mostly or wholly NaN.
-        var mostlyNaN = Gen.Frequency((12, Gen.Const(double.NaN)), (1, Values));
-        var columns = Gen.OneOf(Values.Array[0, 70], mostlyNaN.Array[0, 40], Gen.Const(double.NaN).Array[0, 20]);
+        var mostlyNaN = Gen.Frequency((12, Gen.Const(double.NaN)), (1, TestValues.Doubles));
+        var columns = Gen.OneOf(TestValues.Doubles.Array[0, 70], mostlyNaN.Array[0, 40], Gen.Const(double.NaN).Array[0, 20]);
         Gen.Select(columns, Gen.Long[0, 5]).Sample((values, nulls) =>
         {
             var statistics = ColumnStatistics.Of(values, nulls);

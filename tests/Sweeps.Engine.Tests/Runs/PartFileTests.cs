@@ -43,13 +43,9 @@ public sealed class PartFileTests
 
     private static readonly string[] Reasons = ["transient", "escaped at step 12", "gleich ±∞ — ünïcode", ""];
 
-    private static readonly Gen<double> Values = Gen.Frequency(
-        (6, Gen.Double),
-        (1, Gen.OneOf(double.NaN, double.PositiveInfinity, double.NegativeInfinity, 0.0, -0.0, double.Epsilon, -double.MaxValue)));
-
     // A row: regime, how many rows repeat it (runs exercise both halves of the level and index encoding), samples.
     private static readonly Gen<(Regime Regime, int Run, int Samples, double Value, int Reason, bool Flag)> Rows =
-        Gen.Select(Gen.Enum<Regime>(), Gen.Int[1, 40], Gen.Int[0, 4], Values, Gen.Int[-3, Reasons.Length - 1], Gen.Bool);
+        Gen.Select(Gen.Enum<Regime>(), Gen.Int[1, 40], Gen.Int[0, 4], TestValues.Doubles, Gen.Int[-3, Reasons.Length - 1], Gen.Bool);
 
     [Fact]
     public void Write_ReadsBackBitForBit_ThroughAnIndependentReader()

@@ -27,8 +27,8 @@ internal static class ListLevels
         foreach (var count in counts)
         {
             var levels = Math.Max(1, count);
-            Row(repetitions.Slice(at, levels), count, repetition: true, first: true);
-            Row(definitions.Slice(at, levels), count, repetition: false, first: true);
+            Row(repetitions.Slice(at, levels), count, repetition: true);
+            Row(definitions.Slice(at, levels), count, repetition: false);
             at += levels;
         }
     }
@@ -76,11 +76,11 @@ internal static class ListLevels
         return row + 1;
     }
 
-    /// <summary>Levels of (part of) a row of <paramref name="count"/> values; <paramref name="first"/>: the part that starts the row.</summary>
-    private static void Row(Span<int> levels, int count, bool repetition, bool first)
+    /// <summary>The levels of a row of <paramref name="count"/> values.</summary>
+    private static void Row(Span<int> levels, int count, bool repetition)
     {
         levels.Fill(repetition ? 1 : count == 0 ? 1 : 2);
-        if (repetition && first)
+        if (repetition)
         {
             levels[0] = 0;
         }
